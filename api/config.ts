@@ -1,0 +1,36 @@
+import { z } from 'zod';
+
+/** Everything the API reads from its environment, parsed once at boot. */
+const configSchema = z.object({
+  NODE_ENV: z.enum(['development', 'test', 'production']).default('development'),
+  HOST: z.string().default('127.0.0.1'),
+  PORT: z.coerce.number().int().min(0).max(65535).default(4300),
+  DATABASE_URL: z.url({ protocol: /^postgres(ql)?$/, error: 'DATABASE_URL must be a postgres:// address' }),
+  DATABASE_POOL_MAX: z.coerce.number().int().min(1).max(100).default(10),
+  JWT_SECRET: z.string().min(32, 'JWT_SECRET must be at least 32 characters'),
+  JWT_ISSUER: z.string().default('setwright'),
+  JWT_AUDIENCE: z.string().default('setwright-api'),
+  ACCESS_TOKEN_SECONDS: z.coerce.number().int().min(30).max(3600).default(900),
+  REFRESH_TOKEN_HOURS: z.coerce.number().int().min(1).max(24).default(12),
+  BCRYPT_COST: z.coerce.number().int().min(12, 'BCRYPT_COST must be 12 or more').max(15).default(12),
+  LOGIN_WINDOW_SECONDS: z.coerce.number().int().min(1).default(900),
+  LOGIN_LIMIT_PER_ACCOUNT: z.coerce.number().int().min(1).default(8),
+  LOGIN_LIMIT_PER_ADDRESS: z.coerce.number().int().min(1).default(40),
+  LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).default('info'),
+  STATIC_DIR: z.string().optional(),
+  PUBLIC_URL: z.url().optional(),
+  /** Mark the refresh cookie Secure; defaults to on in production. Off only for plain-http serving on loopback. */
+  COOKIE_SECURE: z.enum(['true', 'false']).optional(),
+});
+
+export type Config = z.infer<typeof configSchema>;
+
+/** Parse the environment; throws one readable message listing every bad setting. */
+export function loadConfig(env: Record<string, string | undefined> = process.env): Config {
+  const parsed = configSchema.safeParse(env);
+  if (!parsed.success) {
+    const lines = parsed.error.issues.map((i) => `  ${i.path.join('.') || '(root)'}: ${i.message}`);
+    throw new Error(`Setwright cannot start: its settings are not right.\n${lines.join('\n')}`);
+  }
+  return parsed.data;
+}

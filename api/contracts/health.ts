@@ -1,0 +1,6 @@
+export interface HealthResponse {
+  status: 'ok' | 'degraded';
+  database: 'reachable' | 'unreachable';
+  version: string;
+  time: string;
+}

@@ -1,0 +1,47 @@
+import type { Server } from 'node:http';
+import type { AddressInfo } from 'node:net';
+import { createApp } from './app';
+import { loadConfig, type Config } from './config';
+import { createDatabase } from './db/database';
+import { migrate } from './db/migrate';
+import { createLogger } from './lib/logger';
+
+export interface RunningApi {
+  url: string;
+  stop(): Promise<void>;
+}
+
+/** Connect, migrate, listen. Used by `npm start` and `npm run dev`; tests use createApp() directly. */
+export async function startApi(config: Config = loadConfig()): Promise<RunningApi> {
+  const logger = createLogger(config.LOG_LEVEL);
+  const sequelize = createDatabase(config.DATABASE_URL, config.DATABASE_POOL_MAX);
+  await migrate(sequelize);
+  const app = createApp({ config, sequelize, logger });
+  const server: Server = await new Promise((resolve) => {
+    const s = app.listen(config.PORT, config.HOST, () => resolve(s));
+  });
+  const { port } = server.address() as AddressInfo;
+  const url = `http://${config.HOST}:${port}`;
+  logger.info({ url }, 'Setwright is listening');
+  return {
+    url,
+    async stop() {
+      const closed = new Promise<void>((resolve) => server.close(() => resolve()));
+      server.closeIdleConnections();
+      setTimeout(() => server.closeAllConnections(), 3000).unref();
+      await closed;
+      await sequelize.close();
+    },
+  };
+}
+
+// Run directly (npm run dev): start, and stop cleanly on Ctrl-C.
+if (import.meta.url === `file://${process.argv[1]}`) {
+  const api = await startApi();
+  const stop = async () => {
+    await api.stop();
+    process.exit(0);
+  };
+  process.once('SIGINT', stop);
+  process.once('SIGTERM', stop);
+}

@@ -1,0 +1,65 @@
+import type { Transaction } from 'sequelize';
+import type { Role } from '../../contracts/roles';
+import { RoleAssignment, User } from './model';
+
+/** A person as the rest of the API sees them: plain data, never a model instance. */
+export interface Person {
+  id: string;
+  email: string;
+  displayName: string;
+  active: boolean;
+  roles: Role[];
+}
+
+export interface PersonWithHash extends Person {
+  passwordHash: string;
+}
+
+function toPerson(user: User): PersonWithHash {
+  return {
+    id: user.id,
+    email: user.email,
+    displayName: user.displayName,
+    active: user.active,
+    roles: (user.roleAssignments ?? []).map((r) => r.role).sort(),
+    passwordHash: user.passwordHash,
+  };
+}
+
+const withRoles = { include: [{ model: RoleAssignment, as: 'roleAssignments' }] };
+
+export async function findPersonByEmail(email: string): Promise<PersonWithHash | null> {
+  const user = await User.findOne({ where: { email: email.trim().toLowerCase() }, ...withRoles });
+  return user ? toPerson(user) : null;
+}
+
+export async function findPersonById(id: string): Promise<Person | null> {
+  const user = await User.findByPk(id, withRoles);
+  if (!user) return null;
+  const { passwordHash: _hidden, ...person } = toPerson(user);
+  return person;
+}
+
+/** Create a person with roles, or bring an existing one (by email) up to the given roles. */
+export async function upsertPerson(
+  input: { email: string; displayName: string; passwordHash: string; roles: Role[]; active?: boolean },
+  transaction?: Transaction,
+): Promise<Person> {
+  const email = input.email.trim().toLowerCase();
+  let user = await User.findOne({ where: { email }, transaction });
+  if (!user) {
+    user = await User.create(
+      { email, displayName: input.displayName, passwordHash: input.passwordHash, active: input.active ?? true },
+      { transaction },
+    );
+  }
+  for (const role of input.roles) {
+    await RoleAssignment.findOrCreate({ where: { userId: user.id, role }, transaction });
+  }
+  const person = await findPersonById(user.id);
+  return person!;
+}
+
+export async function setActive(id: string, active: boolean): Promise<void> {
+  await User.update({ active }, { where: { id } });
+}

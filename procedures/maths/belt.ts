@@ -1,0 +1,48 @@
+import { MathsInputError } from './errors';
+import { positiveSi, si, type Quantity } from './units';
+
+/** Two pulleys on fixed centres. */
+export interface PulleyPair {
+  readonly driverPulley: Quantity;
+  readonly drivenPulley: Quantity;
+  readonly centreDistance: Quantity;
+}
+
+/** SI diameters and centres, checked so the belt's straight run exists: C > |D − d| ÷ 2. */
+function pair(input: PulleyPair): { big: number; small: number; c: number } {
+  const a = positiveSi(input.driverPulley, 'length', 'driverPulley');
+  const b = positiveSi(input.drivenPulley, 'length', 'drivenPulley');
+  const c = positiveSi(input.centreDistance, 'length', 'centreDistance');
+  if (c <= Math.abs(a - b) / 2) {
+    throw new MathsInputError(
+      'centreDistance',
+      'centreDistance must be more than half the difference of the pulley diameters',
+      'out-of-range',
+    );
+  }
+  return { big: Math.max(a, b), small: Math.min(a, b), c };
+}
+
+/** Belt span between tangent points t = √(C² − ((D − d)/2)²). */
+export function beltSpan(input: PulleyPair): Quantity {
+  const { big, small, c } = pair(input);
+  return si(Math.sqrt(c * c - ((big - small) / 2) ** 2), 'length');
+}
+
+/** Open-belt length (usual approximation) L = 2C + π(D + d)/2 + (D − d)²/(4C). */
+export function openBeltLength(input: PulleyPair): Quantity {
+  const { big, small, c } = pair(input);
+  return si(2 * c + (Math.PI * (big + small)) / 2 + (big - small) ** 2 / (4 * c), 'length');
+}
+
+/** Open-belt length, exact tangent form L = 2t + π(D + d)/2 + (D − d)·asin((D − d)/(2C)). */
+export function openBeltLengthExact(input: PulleyPair): Quantity {
+  const { big, small, c } = pair(input);
+  const span = Math.sqrt(c * c - ((big - small) / 2) ** 2);
+  return si(2 * span + (Math.PI * (big + small)) / 2 + (big - small) * Math.asin((big - small) / (2 * c)), 'length');
+}
+
+/** Target mid-span deflection h = t/64 (1/64 in per inch of span). */
+export function beltDeflectionTarget(input: { span: Quantity }): Quantity {
+  return si(positiveSi(input.span, 'length', 'span') / 64, 'length');
+}

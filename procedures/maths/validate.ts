@@ -1,0 +1,67 @@
+import { MathsInputError } from './errors';
+
+/** Returns x as a finite number, or throws naming the argument. */
+export function finiteNumber(x: unknown, argument: string): number {
+  if (x === undefined || x === null) {
+    throw new MathsInputError(argument, `${argument} is required`, 'missing');
+  }
+  if (typeof x !== 'number' || Number.isNaN(x)) {
+    throw new MathsInputError(argument, `${argument} must be a number`, 'not-a-number');
+  }
+  if (!Number.isFinite(x)) {
+    throw new MathsInputError(argument, `${argument} must be a finite number`, 'not-finite');
+  }
+  return x;
+}
+
+/** Throws unless value > 0; `shown` is how the value is quoted in the message. */
+export function requirePositive(value: number, argument: string, shown = String(value)): number {
+  if (value < 0) {
+    throw new MathsInputError(argument, `${argument} must be greater than zero (got ${shown})`, 'negative');
+  }
+  if (value === 0) {
+    throw new MathsInputError(argument, `${argument} must be greater than zero (got ${shown})`, 'zero');
+  }
+  return value;
+}
+
+/** Throws unless value ≥ 0. */
+export function requireNonNegative(value: number, argument: string, shown = String(value)): number {
+  if (value < 0) {
+    throw new MathsInputError(argument, `${argument} must not be negative (got ${shown})`, 'negative');
+  }
+  return value;
+}
+
+/** A finite number greater than zero (ratios, tooth counts). */
+export function positiveNumber(x: unknown, argument: string): number {
+  return requirePositive(finiteNumber(x, argument), argument);
+}
+
+/** Returns x as a plain object, or throws naming the argument. */
+export function requireObject(x: unknown, argument: string): Record<string, unknown> {
+  if (typeof x !== 'object' || x === null || Array.isArray(x)) {
+    throw new MathsInputError(argument, `${argument} must be an object`, 'missing');
+  }
+  return x as Record<string, unknown>;
+}
+
+/** Returns x as a non-empty array, or throws naming the argument. */
+export function requireList(x: unknown, argument: string): readonly unknown[] {
+  if (!Array.isArray(x) || x.length === 0) {
+    throw new MathsInputError(argument, `${argument} must list at least one entry`, 'missing');
+  }
+  return x;
+}
+
+/** Returns x if it is one of the allowed strings, or throws naming the argument. */
+export function oneOf<T extends string>(x: unknown, allowed: readonly T[], argument: string): T {
+  if (typeof x === 'string' && (allowed as readonly string[]).includes(x)) {
+    return x as T;
+  }
+  throw new MathsInputError(
+    argument,
+    `${argument} must be one of ${allowed.map((a) => `"${a}"`).join(', ')}`,
+    'unknown-name',
+  );
+}

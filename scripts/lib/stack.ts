@@ -1,0 +1,101 @@
+import { createHash, randomBytes } from 'node:crypto';
+import { existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs';
+import { join, resolve } from 'node:path';
+import { postgresCanReach, startCluster, type Cluster } from './postgres';
+
+export const ROOT = resolve(import.meta.dirname, '..', '..');
+
+export function say(message: string) {
+  console.log(`[setwright] ${message}`);
+}
+
+interface Secrets {
+  pgAdminPassword: string;
+  pgAppPassword: string;
+  jwtSecret: string;
+}
+
+function randomSecret() {
+  return randomBytes(24).toString('base64url');
+}
+
+/** Secrets for the local data folder, made once and kept beside the data (git-ignored). */
+export function localSecrets(dataRoot: string): Secrets {
+  const file = join(dataRoot, 'secrets.json');
+  if (existsSync(file)) return JSON.parse(readFileSync(file, 'utf8')) as Secrets;
+  const secrets: Secrets = { pgAdminPassword: randomSecret(), pgAppPassword: randomSecret(), jwtSecret: randomBytes(48).toString('base64url') };
+  mkdirSync(dataRoot, { recursive: true });
+  writeFileSync(file, JSON.stringify(secrets, null, 2), { mode: 0o600 });
+  return secrets;
+}
+
+/** Fresh random secrets for a throwaway run. */
+export function throwawaySecrets(): Secrets {
+  return { pgAdminPassword: randomSecret(), pgAppPassword: randomSecret(), jwtSecret: randomBytes(48).toString('base64url') };
+}
+
+/**
+ * Where the local cluster keeps its files: `.data/pg` in the project, unless the postgres
+ * user cannot reach the project folder (a clone under /root, say); then a folder under
+ * /var/lib/setwright named after the project's path.
+ */
+export function localPgDir(): string {
+  const dataRoot = join(ROOT, '.data');
+  mkdirSync(dataRoot, { recursive: true });
+  if (postgresCanReach(dataRoot)) return join(dataRoot, 'pg');
+  const elsewhere = join('/var/lib/setwright', createHash('sha256').update(ROOT).digest('hex').slice(0, 12), 'pg');
+  say(`the postgres user cannot reach ${dataRoot}; keeping the database in ${elsewhere}`);
+  return elsewhere;
+}
+
+export interface Stack {
+  cluster: Cluster;
+  env: Record<string, string>;
+  stop(): void;
+}
+
+/** Start the services Setwright needs and return the environment the API reads. */
+export async function startStack(o: { pgDir: string; pgPort: number; secrets: Secrets; apiPort: number; nodeEnv: string }): Promise<Stack> {
+  const cluster = await startCluster({
+    dataDir: o.pgDir,
+    port: o.pgPort,
+    appPassword: o.secrets.pgAppPassword,
+    adminPassword: o.secrets.pgAdminPassword,
+    log: say,
+  });
+  const env: Record<string, string> = {
+    NODE_ENV: o.nodeEnv,
+    DATABASE_URL: cluster.appUrl,
+    DATABASE_ADMIN_URL: cluster.adminUrl,
+    JWT_SECRET: o.secrets.jwtSecret,
+    PORT: String(o.apiPort),
+    HOST: '127.0.0.1',
+    STATIC_DIR: join(ROOT, 'dist', 'setwright', 'browser'),
+  };
+  return {
+    cluster,
+    env,
+    stop() {
+      cluster.stop();
+    },
+  };
+}
+
+/** Apply migrations and the demo data, with the API's own code, then disconnect. */
+export async function prepareDatabase(env: Record<string, string>): Promise<void> {
+  Object.assign(process.env, env);
+  const { loadConfig } = await import('../../api/config');
+  const { createDatabase } = await import('../../api/db/database');
+  const { migrate } = await import('../../api/db/migrate');
+  const { seedDemo } = await import('../../api/db/seed');
+  const config = loadConfig(process.env);
+  const sequelize = createDatabase(config.DATABASE_URL, 2);
+  try {
+    const applied = await migrate(sequelize);
+    say(applied.length ? `applied migrations: ${applied.join(', ')}` : 'database schema is up to date');
+    await seedDemo(config.BCRYPT_COST);
+    say('demo workshop data is in place');
+  } finally {
+    await sequelize.close();
+  }
+}

@@ -1,0 +1,48 @@
+// `npm start`: the local database, migrations and demo data, the production build, and one server.
+import { join } from 'node:path';
+import { DEMO_PASSWORD, DEMO_PEOPLE } from '../api/db/seed';
+import { ROLE_LABELS } from '../api/contracts/roles';
+import { runCommand } from './lib/run';
+import { localPgDir, localSecrets, prepareDatabase, ROOT, say, startStack } from './lib/stack';
+
+const secrets = localSecrets(join(ROOT, '.data'));
+const stack = await startStack({
+  pgDir: localPgDir(),
+  pgPort: Number(process.env['SETWRIGHT_DB_PORT'] ?? 54329),
+  apiPort: Number(process.env['PORT'] ?? 4300),
+  secrets,
+  nodeEnv: 'production',
+});
+
+let stopping = false;
+async function shutdown(code: number, api?: { stop(): Promise<void> }) {
+  if (stopping) return;
+  stopping = true;
+  say('stopping…');
+  try {
+    await api?.stop();
+  } finally {
+    stack.stop();
+    process.exit(code);
+  }
+}
+
+try {
+  await prepareDatabase(stack.env);
+  if (process.env['SETWRIGHT_SKIP_BUILD'] !== '1') {
+    say('building the client app (production)…');
+    const build = await runCommand('npx', ['ng', 'build', '--progress=false']);
+    if (build.code !== 0) throw new Error('the client build failed');
+  }
+  const { startApi } = await import('../api/main');
+  const { loadConfig } = await import('../api/config');
+  const api = await startApi(loadConfig({ ...process.env, ...stack.env, PUBLIC_URL: `http://127.0.0.1:${stack.env['PORT']}`, COOKIE_SECURE: 'false' }));
+  process.once('SIGINT', () => void shutdown(0, api));
+  process.once('SIGTERM', () => void shutdown(0, api));
+  say(`Setwright is ready at ${api.url}  (Ctrl-C stops the server and the database)`);
+  say(`demo sign-ins (password for all: ${DEMO_PASSWORD}):`);
+  for (const p of DEMO_PEOPLE) say(`  ${p.roles.map((r) => ROLE_LABELS[r]).join(' + ').padEnd(34)} ${p.email}`);
+} catch (err) {
+  console.error(`[setwright] could not start: ${(err as Error).message}`);
+  await shutdown(1);
+}
