@@ -1,5 +1,7 @@
 import type { Server } from 'node:http';
 import type { AddressInfo } from 'node:net';
+import { resolve } from 'node:path';
+import { pathToFileURL } from 'node:url';
 import { createApp } from './app';
 import { loadConfig, type Config } from './config';
 import { createDatabase } from './db/database';
@@ -36,7 +38,7 @@ export async function startApi(config: Config = loadConfig()): Promise<RunningAp
 }
 
 // Run directly (npm run dev): start, and stop cleanly on Ctrl-C.
-if (import.meta.url === `file://${process.argv[1]}`) {
+if (process.argv[1] && import.meta.url === pathToFileURL(resolve(process.argv[1])).href) {
   const api = await startApi();
   const stop = async () => {
     await api.stop();

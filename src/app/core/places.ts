@@ -1,0 +1,18 @@
+import type { Role } from '@setwright/contracts/roles';
+
+/** A place in the app, who may open it, and what it is for. */
+export interface Place {
+  path: string;
+  label: string;
+  icon: string;
+  roles: readonly Role[];
+  summary: string;
+}
+
+const EVERYONE: readonly Role[] = ['trainee', 'competent_person', 'auditor', 'workshop_admin'];
+
+/** The places that exist today; the shell and Today list the ones the signed-in person may open. */
+export const PLACES: readonly Place[] = [
+  { path: '/today', label: 'Today', icon: 'home', roles: EVERYONE, summary: 'Your work: what to do next.' },
+  { path: '/machines', label: 'Machines', icon: 'precision_manufacturing', roles: EVERYONE, summary: 'The machine register and each saw’s figures.' },
+];
