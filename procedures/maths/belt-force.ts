@@ -32,7 +32,7 @@ export const beltForceTable: readonly BeltForceRow[] = [
   },
 ];
 
-/** Deflection force (N) looked up by belt section, small pulley Ø and its speed; null when no row covers them. */
+/** Deflection force (N) by belt section, small pulley Ø and speed; null when no row covers them. */
 export function beltDeflectionForce(input: {
   section: string;
   smallPulley: Quantity;
@@ -44,11 +44,16 @@ export function beltDeflectionForce(input: {
   const n = positiveSi(input.smallPulleySpeed, 'rotationalSpeed', 'smallPulleySpeed');
   const belt = oneOf(input.belt, ['new', 'used'] as const, 'belt');
   const section = String(input.section).trim().toUpperCase();
-  const inRange = (x: number, r: { min: Quantity; max: Quantity }, kind: 'length' | 'rotationalSpeed'): boolean =>
+  type Range = { min: Quantity; max: Quantity };
+  const inRange = (x: number, r: Range, kind: 'length' | 'rotationalSpeed'): boolean =>
     x >= siValue(r.min, kind, 'table') - 1e-12 && x <= siValue(r.max, kind, 'table') + 1e-12;
   const row = (input.table ?? beltForceTable).find(
-    (r) => r.sections.includes(section) && inRange(d, r.smallPulley, 'length') && inRange(n, r.speed, 'rotationalSpeed'),
+    (r) =>
+      r.sections.includes(section) &&
+      inRange(d, r.smallPulley, 'length') &&
+      inRange(n, r.speed, 'rotationalSpeed'),
   );
   if (row === undefined) return null;
-  return { force: si(siValue(belt === 'new' ? row.newBelt : row.usedBelt, 'force', 'table'), 'force'), row };
+  const force = siValue(belt === 'new' ? row.newBelt : row.usedBelt, 'force', 'table');
+  return { force: si(force, 'force'), row };
 }

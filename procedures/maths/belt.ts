@@ -39,7 +39,8 @@ export function openBeltLength(input: PulleyPair): Quantity {
 export function openBeltLengthExact(input: PulleyPair): Quantity {
   const { big, small, c } = pair(input);
   const span = Math.sqrt(c * c - ((big - small) / 2) ** 2);
-  return si(2 * span + (Math.PI * (big + small)) / 2 + (big - small) * Math.asin((big - small) / (2 * c)), 'length');
+  const wrap = (big - small) * Math.asin((big - small) / (2 * c));
+  return si(2 * span + (Math.PI * (big + small)) / 2 + wrap, 'length');
 }
 
 /** Target mid-span deflection h = t/64 (1/64 in per inch of span). */

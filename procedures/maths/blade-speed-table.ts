@@ -30,7 +30,11 @@ export interface SectionPoint {
 
 /** The published adjustment rules applied when a row's basis differs from the request. */
 export interface SpeedAdjustments {
-  readonly dryCutting: { readonly minPercent: number; readonly maxPercent: number; readonly source: Source };
+  readonly dryCutting: {
+    readonly minPercent: number;
+    readonly maxPercent: number;
+    readonly source: Source;
+  };
   readonly carbonBlade: { readonly percent: number; readonly source: Source };
   readonly sectionSize: { readonly points: readonly SectionPoint[]; readonly source: Source };
 }
@@ -44,7 +48,13 @@ const ftMin = (value: number): Quantity => ({ value, unit: 'ft/min' });
 const inch = (value: number): Quantity => ({ value, unit: 'in' });
 
 /** Dry-chart row: ft/min for sections 0–½ in, ½–1 in, over 1 in. */
-function dryChartRow(material: string, name: string, small: number, mid: number, large: number): BladeSpeedRow {
+function dryChartRow(
+  material: string,
+  name: string,
+  small: number,
+  mid: number,
+  large: number,
+): BladeSpeedRow {
   return {
     material,
     name,

@@ -17,12 +17,14 @@ export const defaultBreakInArea: Quantity = breakInAreaRange.high;
 export const breakInFeedFraction = 0.5;
 
 /** Total area cut Σ area(section) × count (m²). */
-export function totalCutArea(input: { cuts: readonly { section: CutSection; count?: number }[] }): Quantity {
+export function totalCutArea(input: {
+  cuts: readonly { section: CutSection; count?: number }[];
+}): Quantity {
   const cuts = requireList(input.cuts, 'cuts');
   const total = cuts.reduce<number>((sum, raw, i) => {
     const cut = requireObject(raw, `cuts[${i}]`);
-    const count =
-      cut['count'] === undefined ? 1 : requireNonNegative(finiteNumber(cut['count'], `cuts[${i}].count`), `cuts[${i}].count`);
+    const at = `cuts[${i}].count`;
+    const count = cut['count'] === undefined ? 1 : requireNonNegative(finiteNumber(cut['count'], at), at);
     return sum + sectionArea(cut['section'] as CutSection, `cuts[${i}].section`).value * count;
   }, 0);
   return si(total, 'area');
@@ -40,8 +42,11 @@ export interface BreakInProgress {
   readonly feedFraction: number;
 }
 
-/** Area still to cut at reduced feed: remaining = max(0, A_break-in − A_cut); % done = A_cut ÷ A_break-in × 100. */
-export function breakInRemaining(input: { areaCut: Quantity; breakInArea?: Quantity }): BreakInProgress {
+/** Break-in left: remaining = max(0, A_break-in − A_cut); % done = A_cut ÷ A_break-in × 100. */
+export function breakInRemaining(input: {
+  areaCut: Quantity;
+  breakInArea?: Quantity;
+}): BreakInProgress {
   const cut = nonNegativeSi(input.areaCut, 'area', 'areaCut');
   const target = positiveSi(input.breakInArea ?? defaultBreakInArea, 'area', 'breakInArea');
   const complete = cut >= target;

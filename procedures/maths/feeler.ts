@@ -3,10 +3,9 @@ import { nonNegativeSi, positiveSi, si, type Quantity } from './units';
 
 const mm = (value: number): Quantity => ({ value, unit: 'mm' });
 
-/**
- * A typical metric feeler set, 0.05–1.00 mm (from memory; leaves within the BS 957:2008 range 0.03–1.00 mm).
- * The list's "0.50 … 1.00" is read as 0.10 mm steps: 0.50, 0.60, 0.70, 0.80, 0.90, 1.00.
- */
+// A typical metric set, 0.05–1.00 mm (from memory; leaves within the BS 957:2008 range 0.03–1.00 mm).
+// The source list's "0.50 … 1.00" is read as 0.10 mm steps: 0.50, 0.60, 0.70, 0.80, 0.90, 1.00.
+/** Default leaves: 0.05–0.10 by 0.01, 0.15–0.30 by 0.05, 0.40–1.00 by 0.10 mm (from memory). */
 export const typicalMetricFeelerSet: readonly Quantity[] = [
   0.05, 0.06, 0.07, 0.08, 0.09, 0.1, 0.15, 0.2, 0.25, 0.3, 0.4, 0.5, 0.6, 0.7, 0.8, 0.9, 1.0,
 ].map(mm);
@@ -25,10 +24,7 @@ export interface FeelerStack {
 /** Sums are kept as whole tenths of a micrometre so that equal thicknesses compare exactly. */
 const STEP = 1e-7;
 
-/**
- * Fewest leaves (each used at most once) with |Σ leaves − target| ≤ tolerance, closest to target
- * among equals; null when no stack reaches.
- */
+/** Fewest leaves, each at most once, with |Σ leaves − target| ≤ tolerance (closest wins a tie); null if none. */
 export function feelerStack(input: {
   target: Quantity;
   tolerance: Quantity;
@@ -62,10 +58,11 @@ export function feelerStack(input: {
     if (used.length === 0 || sum < lo || sum > hi) continue;
     const total = used.reduce((s, i) => s + (exact[i] ?? 0), 0);
     if (Math.abs(total - target) > tolerance + 1e-12) continue;
+    const closer = chosen !== undefined && Math.abs(total - target) < Math.abs(chosen.total - target);
     const better =
       chosen === undefined ||
       used.length < chosen.used.length ||
-      (used.length === chosen.used.length && Math.abs(total - target) < Math.abs(chosen.total - target));
+      (used.length === chosen.used.length && closer);
     if (better) chosen = { total, used };
   }
   if (chosen === undefined) return null;

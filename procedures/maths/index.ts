@@ -5,6 +5,7 @@ export * from './sources';
 export * from './speed';
 export * from './speed-steps';
 export * from './blade-speed-table';
+export * from './blade-speed-rows';
 export * from './blade-speed';
 export * from './sections';
 export * from './pitch';

@@ -72,14 +72,15 @@ export function averageWidthOfCut(section: PitchSection): Quantity {
       return si(area / travel, 'length');
     }
     default:
-      throw new MathsInputError('section.shape', 'section.shape must be one of "solid", "tube", "structural"', 'unknown-name');
+      throw new MathsInputError(
+        'section.shape',
+        'section.shape must be one of "solid", "tube", "structural"',
+        'unknown-name',
+      );
   }
 }
 
-/**
- * Tooth pitch by teeth in the cut: minTeeth ≤ TPI·t[in] ≤ maxTeeth (three-teeth rule p ≤ t/3);
- * the nearest standard pitches are those in range closest (by ratio) to targetTeeth ÷ t.
- */
+/** Tooth pitch: minTeeth ÷ t[in] ≤ TPI ≤ maxTeeth ÷ t[in] (three-teeth rule p ≤ t/3); nearest = in range, closest by ratio to targetTeeth ÷ t. */
 export function toothPitch(input: {
   section: PitchSection;
   minTeeth?: number;
@@ -89,15 +90,19 @@ export function toothPitch(input: {
   constantPitches?: readonly number[];
   variablePitches?: readonly (readonly [number, number])[];
 }): ToothPitchResult {
-  const minTeeth = input.minTeeth === undefined ? 3 : requirePositive(finiteNumber(input.minTeeth, 'minTeeth'), 'minTeeth');
-  const maxTeeth = input.maxTeeth === undefined ? 12 : requirePositive(finiteNumber(input.maxTeeth, 'maxTeeth'), 'maxTeeth');
+  const minTeeth = input.minTeeth === undefined ? 3 : positiveCount(input.minTeeth, 'minTeeth');
+  const maxTeeth = input.maxTeeth === undefined ? 12 : positiveCount(input.maxTeeth, 'maxTeeth');
   if (maxTeeth < minTeeth) {
-    throw new MathsInputError('maxTeeth', `maxTeeth must not be less than minTeeth (${minTeeth})`, 'out-of-range');
+    throw new MathsInputError(
+      'maxTeeth',
+      `maxTeeth must not be less than minTeeth (${minTeeth})`,
+      'out-of-range',
+    );
   }
   const targetTeeth =
     input.targetTeeth === undefined
       ? Math.sqrt(minTeeth * maxTeeth)
-      : requirePositive(finiteNumber(input.targetTeeth, 'targetTeeth'), 'targetTeeth');
+      : positiveCount(input.targetTeeth, 'targetTeeth');
   const width = averageWidthOfCut(input.section);
   const t = valueIn(width, 'in');
   const minTpi = minTeeth / t;
@@ -118,20 +123,22 @@ export function toothPitch(input: {
       withinRange: tpi >= minTpi - slack && tpi <= maxTpi + slack,
     };
   };
-  const constants = (requireList(input.constantPitches ?? constantPitches, 'constantPitches') as number[]).map((p, i) => {
-    const tpi = positivePitch(p, `constantPitches[${i}]`);
+  const constantList = requireList(input.constantPitches ?? constantPitches, 'constantPitches');
+  const constants = constantList.map((p, i) => {
+    const tpi = positiveCount(p, `constantPitches[${i}]`);
     return choice(tpi, tpi, String(tpi));
   });
-  const variables = (requireList(input.variablePitches ?? variablePitches, 'variablePitches') as [number, number][]).map(
-    (pair, i) => {
-      if (!Array.isArray(pair) || pair.length !== 2) {
-        throw new MathsInputError(`variablePitches[${i}]`, `variablePitches[${i}] must be [coarse, fine]`, 'missing');
-      }
-      const coarse = positivePitch(pair[0], `variablePitches[${i}]`);
-      const fine = positivePitch(pair[1], `variablePitches[${i}]`);
-      return choice(Math.min(coarse, fine), Math.max(coarse, fine), `${Math.min(coarse, fine)}/${Math.max(coarse, fine)}`);
-    },
-  );
+  const variableList = requireList(input.variablePitches ?? variablePitches, 'variablePitches');
+  const variables = variableList.map((pair, i) => {
+    const at = `variablePitches[${i}]`;
+    if (!Array.isArray(pair) || pair.length !== 2) {
+      throw new MathsInputError(at, `${at} must be [coarse, fine]`, 'missing');
+    }
+    const a = positiveCount(pair[0], at);
+    const b = positiveCount(pair[1], at);
+    const [coarse, fine] = a <= b ? [a, b] : [b, a];
+    return choice(coarse, fine, `${coarse}/${fine}`);
+  });
   const outside = (c: PitchChoice): number =>
     c.tpi < minTpi ? Math.log(minTpi / c.tpi) : c.tpi > maxTpi ? Math.log(c.tpi / maxTpi) : 0;
   const offTarget = (c: PitchChoice): number => Math.abs(Math.log(c.tpi / targetTpi));
@@ -155,6 +162,7 @@ export function toothPitch(input: {
   };
 }
 
-function positivePitch(x: unknown, argument: string): number {
+/** A tooth count or teeth per inch: a finite number greater than zero. */
+function positiveCount(x: unknown, argument: string): number {
   return requirePositive(finiteNumber(x, argument), argument);
 }

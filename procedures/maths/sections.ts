@@ -18,22 +18,24 @@ export type CutSection =
   | { readonly shape: 'area'; readonly area: Quantity };
 
 /** Outside and inside diameters of a tube (SI), checked so the bore is smaller than the outside. */
-export function tubeDiameters(tube: TubeSection, path = 'section'): { outside: number; inside: number } {
+export function tubeDiameters(
+  tube: TubeSection,
+  path = 'section',
+): { outside: number; inside: number } {
   const outside = positiveSi(tube.outside, 'length', `${path}.outside`);
+  const refuse = (arg: string, message: string): never => {
+    throw new MathsInputError(`${path}.${arg}`, `${path}.${arg} ${message}`, 'out-of-range');
+  };
   if (tube.inside !== undefined && tube.wall !== undefined) {
-    throw new MathsInputError(`${path}.wall`, `${path}.wall must not be given together with ${path}.inside`, 'out-of-range');
+    return refuse('wall', `must not be given together with ${path}.inside`);
   }
   if (tube.wall !== undefined) {
     const wall = positiveSi(tube.wall, 'length', `${path}.wall`);
-    if (2 * wall >= outside) {
-      throw new MathsInputError(`${path}.wall`, `${path}.wall must be less than half of ${path}.outside`, 'out-of-range');
-    }
+    if (2 * wall >= outside) return refuse('wall', `must be less than half of ${path}.outside`);
     return { outside, inside: outside - 2 * wall };
   }
   const inside = positiveSi(tube.inside, 'length', `${path}.inside`);
-  if (inside >= outside) {
-    throw new MathsInputError(`${path}.inside`, `${path}.inside must be smaller than ${path}.outside`, 'out-of-range');
-  }
+  if (inside >= outside) return refuse('inside', `must be smaller than ${path}.outside`);
   return { outside, inside };
 }
 
@@ -45,8 +47,10 @@ export function sectionArea(section: CutSection, path = 'section'): Quantity {
       const d = positiveSi(s.diameter, 'length', `${path}.diameter`);
       return si((Math.PI * d * d) / 4, 'area');
     }
-    case 'rectangle':
-      return si(positiveSi(s.width, 'length', `${path}.width`) * positiveSi(s.height, 'length', `${path}.height`), 'area');
+    case 'rectangle': {
+      const w = positiveSi(s.width, 'length', `${path}.width`);
+      return si(w * positiveSi(s.height, 'length', `${path}.height`), 'area');
+    }
     case 'tube': {
       const { outside, inside } = tubeDiameters(s, path);
       return si((Math.PI / 4) * (outside * outside - inside * inside), 'area');

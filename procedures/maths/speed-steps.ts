@@ -34,7 +34,8 @@ export function speedSteps(table: SpeedTable): SpeedStepResult[] {
   const tableRatio = gearboxRatioOf(table.gearboxRatio);
   return steps.map((raw, index) => {
     const step = requireObject(raw, `steps[${index}]`) as unknown as SpeedStep;
-    const label = typeof step.label === 'string' && step.label !== '' ? step.label : `step ${index + 1}`;
+    const named = typeof step.label === 'string' && step.label !== '';
+    const label = named ? step.label : `step ${index + 1}`;
     const ratio =
       step.gearboxRatio === undefined
         ? tableRatio

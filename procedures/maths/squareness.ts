@@ -23,7 +23,7 @@ export interface SquarenessResult {
   readonly pass?: boolean;
 }
 
-/** Squareness from a feeler gap g at the top of a square of height h: θ = atan(g/h), per 100 mm = 100·g/h. */
+/** Squareness from gap g atop a square of height h: θ = atan(g/h); error per 100 mm = 100·g/h. */
 export function squarenessError(input: {
   gap: Quantity;
   squareHeight: Quantity;
@@ -67,7 +67,8 @@ export function allowedGap(input: { squareHeight: Quantity; angle: Quantity }): 
   const h = positiveSi(input.squareHeight, 'length', 'squareHeight');
   const theta = siValue(input.angle, 'angle', 'angle');
   if (theta < 0 || theta >= Math.PI / 2) {
-    throw new MathsInputError('angle', 'angle must be at least zero and less than 90 degrees', 'out-of-range');
+    const message = 'angle must be at least zero and less than 90 degrees';
+    throw new MathsInputError('angle', message, 'out-of-range');
   }
   return si(h * Math.tan(theta), 'length');
 }

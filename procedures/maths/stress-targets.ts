@@ -34,7 +34,8 @@ export function judgeBladeStress(input: { stress: Quantity; blade: BladeType }):
   const low = siValue(target.low, 'stress', 'target.low');
   const high = siValue(target.high, 'stress', 'target.high');
   const limit = siValue(bladeStressTargets.limit, 'stress', 'limit');
-  const verdict: StressVerdict = sigma > limit ? 'over-limit' : sigma > high ? 'high' : sigma < low ? 'low' : 'within';
+  const verdict: StressVerdict =
+    sigma > limit ? 'over-limit' : sigma > high ? 'high' : sigma < low ? 'low' : 'within';
   const range = `${target.low.value}–${target.high.value} psi`;
   const messages: Record<StressVerdict, string> = {
     low: `Below the usual ${range} for a ${blade} blade.`,
@@ -42,5 +43,11 @@ export function judgeBladeStress(input: { stress: Quantity; blade: BladeType }):
     high: `Above the usual ${range} for a ${blade} blade.`,
     'over-limit': `Past the ${bladeStressTargets.limit.value} psi that a blade should never exceed.`,
   };
-  return { verdict, target, limit: bladeStressTargets.limit, source: bladeStressTargets.source, message: messages[verdict] };
+  return {
+    verdict,
+    target,
+    limit: bladeStressTargets.limit,
+    source: bladeStressTargets.source,
+    message: messages[verdict],
+  };
 }

@@ -41,9 +41,16 @@ export interface BladeStress {
   readonly forceReadout: ForceReadout;
 }
 
-/** Stress in one strand σ = F_strand ÷ (w·t), with F_strand = reading or reading ÷ 2 by what the gauge reads. */
-export function bladeStress(input: { force: Quantity; reads: GaugeReads; width: Quantity; thickness: Quantity }): BladeStress {
-  const strand = strandTension({ reading: input.force, reads: input.reads });
+/** Stress in one strand σ = F_strand ÷ (w·t); F_strand = reading, or reading ÷ 2 for a wheel load. */
+export function bladeStress(input: {
+  force: Quantity;
+  reads: GaugeReads;
+  width: Quantity;
+  thickness: Quantity;
+}): BladeStress {
+  const reads = oneOf(input.reads, ['wheel-load', 'strand'] as const, 'reads');
+  const f = positiveSi(input.force, 'force', 'force');
+  const strand = si(reads === 'wheel-load' ? f / 2 : f, 'force');
   const area = bladeSection(input);
   const stress = si(strand.value / area.value, 'stress');
   return {
@@ -63,7 +70,11 @@ export interface TensionForce {
 }
 
 /** Force for a target stress F_strand = σ·w·t; wheel load = 2·F_strand. */
-export function forceForStress(input: { stress: Quantity; width: Quantity; thickness: Quantity }): TensionForce {
+export function forceForStress(input: {
+  stress: Quantity;
+  width: Quantity;
+  thickness: Quantity;
+}): TensionForce {
   const sigma = positiveSi(input.stress, 'stress', 'stress');
   const strand = si(sigma * bladeSection(input).value, 'force');
   const wheel = si(2 * strand.value, 'force');
@@ -99,11 +110,20 @@ export function stressFromStretch(input: {
   const dl = positiveSi(input.elongation, 'length', 'elongation');
   const l0 = positiveSi(input.gaugeLength, 'length', 'gaugeLength');
   if (dl >= l0) {
-    throw new MathsInputError('elongation', 'elongation must be smaller than gaugeLength', 'out-of-range');
+    throw new MathsInputError(
+      'elongation',
+      'elongation must be smaller than gaugeLength',
+      'out-of-range',
+    );
   }
   const e = modulusOf(input.steel, input.modulus);
   const stress = si((e * dl) / l0, 'stress');
-  return { stress, strain: dl / l0, modulus: si(e, 'stress'), stressReadout: inUnits(stress, stressUnits) };
+  return {
+    stress,
+    strain: dl / l0,
+    modulus: si(e, 'stress'),
+    stressReadout: inUnits(stress, stressUnits),
+  };
 }
 
 /** Stretch a gauge should show for a target stress ΔL = σ·L₀ ÷ E. */

@@ -64,7 +64,8 @@ export function parseUnit(unit: unknown, argument: string): Unit {
     throw new MathsInputError(argument, `${argument} has an unknown unit "${unit}"`, 'unit');
   }
   if (parsed.value !== null && parsed.toNumber() !== 1) {
-    throw new MathsInputError(argument, `${argument} unit "${unit}" must not contain a number`, 'unit');
+    const message = `${argument} unit "${unit}" must not contain a number`;
+    throw new MathsInputError(argument, message, 'unit');
   }
   return parsed;
 }
@@ -119,7 +120,8 @@ export function convert(q: Quantity, unit: string, argument = 'quantity'): Quant
   const from = parseUnit(q.unit, argument);
   const to = parseUnit(unit, 'unit');
   if (!from.equalBase(to)) {
-    throw new MathsInputError('unit', `cannot express ${argument} in "${unit}" (from "${q.unit}")`, 'unit');
+    const message = `unit "${unit}" cannot express ${argument}, given in "${q.unit}"`;
+    throw new MathsInputError('unit', message, 'unit');
   }
   return { value: math.unit(n, q.unit).toNumber(unit), unit };
 }
@@ -141,7 +143,8 @@ export function inUnits<U extends string>(q: Quantity, units: readonly U[]): Rec
 /** The kind of a quantity by its unit's dimensions, or undefined if it is none of ours. */
 export function kindOf(q: Quantity): QuantityKind | undefined {
   const parsed = parseUnit(q.unit, 'quantity');
-  return (Object.keys(siUnits) as QuantityKind[]).find((k) => parsed.equalBase(math.unit(siUnits[k])));
+  const kinds = Object.keys(siUnits) as QuantityKind[];
+  return kinds.find((k) => parsed.equalBase(math.unit(siUnits[k])));
 }
 
 /** Display systems offered to the workshop. */
@@ -164,11 +167,16 @@ export const displayUnits = {
 
 export type DisplayMeasure = keyof typeof displayUnits;
 
-/** Expresses a quantity in the display unit of a measure: toDisplay(v, 'bladeSpeed', 'imperial') → ft/min. */
-export function toDisplay(q: Quantity, measure: DisplayMeasure, system: UnitSystem = 'metric'): Quantity {
+/** Expresses a quantity in a measure's display unit: toDisplay(v, 'bladeSpeed', 'imperial') → ft/min. */
+export function toDisplay(
+  q: Quantity,
+  measure: DisplayMeasure,
+  system: UnitSystem = 'metric',
+): Quantity {
   const units = displayUnits[measure] as Record<UnitSystem, string> | undefined;
   if (units === undefined) {
-    throw new MathsInputError('measure', `measure "${String(measure)}" is not a display measure`, 'unknown-name');
+    const message = `measure "${String(measure)}" is not a display measure`;
+    throw new MathsInputError('measure', message, 'unknown-name');
   }
   const unit = units[system];
   if (unit === undefined) {

@@ -16,11 +16,9 @@ export function finiteNumber(x: unknown, argument: string): number {
 
 /** Throws unless value > 0; `shown` is how the value is quoted in the message. */
 export function requirePositive(value: number, argument: string, shown = String(value)): number {
-  if (value < 0) {
-    throw new MathsInputError(argument, `${argument} must be greater than zero (got ${shown})`, 'negative');
-  }
-  if (value === 0) {
-    throw new MathsInputError(argument, `${argument} must be greater than zero (got ${shown})`, 'zero');
+  if (value <= 0) {
+    const message = `${argument} must be greater than zero (got ${shown})`;
+    throw new MathsInputError(argument, message, value < 0 ? 'negative' : 'zero');
   }
   return value;
 }
@@ -28,7 +26,8 @@ export function requirePositive(value: number, argument: string, shown = String(
 /** Throws unless value ≥ 0. */
 export function requireNonNegative(value: number, argument: string, shown = String(value)): number {
   if (value < 0) {
-    throw new MathsInputError(argument, `${argument} must not be negative (got ${shown})`, 'negative');
+    const message = `${argument} must not be negative (got ${shown})`;
+    throw new MathsInputError(argument, message, 'negative');
   }
   return value;
 }
