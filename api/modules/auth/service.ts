@@ -24,18 +24,25 @@ export class AuthService {
     private readonly bcryptCost: number,
   ) {}
 
-  /** Check email and password; unknown, wrong and deactivated all fail the same way. */
-  async signIn(email: string, password: string): Promise<IssuedSession> {
+  /** The active person these credentials belong to, or null; unknown, wrong and deactivated take the same time. */
+  async checkCredentials(email: string, password: string): Promise<Person | null> {
     const person = await findPersonByEmail(email);
     decoyHash ??= await bcrypt.hash('decoy: nobody signs in with this', this.bcryptCost);
     const ok = await bcrypt.compare(password, person?.passwordHash ?? decoyHash);
-    if (!person || !ok || !person.active) {
+    if (!person || !ok || !person.active) return null;
+    const { passwordHash: _hidden, ...plain } = person;
+    return plain;
+  }
+
+  /** Check email and password; unknown, wrong and deactivated all fail the same way. */
+  async signIn(email: string, password: string): Promise<IssuedSession> {
+    const person = await this.checkCredentials(email, password);
+    if (!person) {
       throw new AppError(401, 'sign-in-failed', 'Sign-in failed', SIGN_IN_FAILED, [
         { pointer: '#/password', detail: SIGN_IN_FAILED },
       ]);
     }
-    const { passwordHash: _hidden, ...plain } = person;
-    return this.issue(plain);
+    return this.issue(person);
   }
 
   /** Swap a refresh token for a new pair; a token used twice revokes every session of its owner. */

@@ -1,0 +1,249 @@
+import { randomUUID } from 'node:crypto';
+import { Op, UniqueConstraintError, type Sequelize, type Transaction } from 'sequelize';
+import { evaluateStep } from '../../../procedures/engine';
+import type { RecordDetail, RecordSummary, StartRecordRequest, StepEntryRequest, StepEntryView } from '../../contracts/records';
+import { AppError } from '../../lib/errors';
+import type { AuthService } from '../auth/service';
+import { Machine } from '../machines/model';
+import { User } from '../people/model';
+import type { Person } from '../people/repository';
+import { Photo } from '../photos/model';
+import { ProcedureVersion } from '../procedures/model';
+import { SetupRecord, StepEntry } from './model';
+import { checkValues } from './values';
+import { entryView, recordDetail, recordSummary } from './views';
+
+const READERS = ['competent_person', 'auditor', 'workshop_admin'] as const;
+const withParts = {
+  include: [
+    { model: Machine, as: 'machine' },
+    { model: ProcedureVersion, as: 'procedureVersion' },
+    { model: User, as: 'startedBy' },
+  ],
+};
+const entryPeople = {
+  include: [
+    { model: User, as: 'enteredBy' },
+    { model: User, as: 'witnessedBy' },
+  ],
+};
+
+/** Set-up records: start one on a machine, save each step as it is done, finish it for sign-off. */
+export class RecordService {
+  constructor(
+    private readonly sequelize: Sequelize,
+    private readonly auth: AuthService,
+  ) {}
+
+  /** Start a record pinned to the procedure's current approved version; a repeated client id returns the same record. */
+  async start(person: Person, req: StartRecordRequest): Promise<{ record: RecordDetail; created: boolean }> {
+    if (req.id) {
+      const existing = await SetupRecord.findByPk(req.id, withParts);
+      if (existing) {
+        const same = existing.startedById === person.id && existing.machineId === req.machineId && existing.procedureVersion!.key === req.procedureKey;
+        if (!same) throw AppError.conflict('A different record already has that id.');
+        return { record: await this.detail(existing), created: false };
+      }
+    }
+    const machine = await Machine.findByPk(req.machineId);
+    if (!machine) throw new AppError(422, 'unknown-machine', 'No such machine', 'That machine is not in the register.', [{ pointer: '#/machineId', detail: 'Choose a machine from the register.' }]);
+    const version = await ProcedureVersion.findOne({ where: { key: req.procedureKey, status: 'approved' } });
+    if (!version) throw new AppError(422, 'unknown-procedure', 'No such procedure', 'There is no approved procedure with that key.', [{ pointer: '#/procedureKey', detail: 'Choose an approved procedure.' }]);
+    if (version.machineKind !== machine.kind) {
+      throw new AppError(422, 'wrong-machine-kind', 'Procedure does not fit this machine', `"${version.title}" is written for another kind of machine.`, [
+        { pointer: '#/procedureKey', detail: 'Choose a procedure written for this machine.' },
+      ]);
+    }
+    const id = req.id ?? randomUUID();
+    try {
+      await SetupRecord.create({ id, machineId: machine.id, procedureVersionId: version.id, machineSpec: machine.spec, status: 'underway', startedById: person.id });
+    } catch (err) {
+      if (err instanceof UniqueConstraintError && req.id) return this.start(person, req);
+      throw err;
+    }
+    return { record: await this.detail((await SetupRecord.findByPk(id, withParts))!), created: true };
+  }
+
+  async get(person: Person, id: string): Promise<RecordDetail> {
+    return this.detail(await this.readable(person, id));
+  }
+
+  /** Records the person may see: their own, or every record for competent persons, auditors and admins. */
+  async list(person: Person, filter: { status?: string; mine?: boolean; machineId?: string }): Promise<RecordSummary[]> {
+    const where: Record<string, unknown> = {};
+    if (filter.status) where['status'] = filter.status;
+    if (filter.machineId) where['machineId'] = filter.machineId;
+    if (filter.mine || !person.roles.some((r) => (READERS as readonly string[]).includes(r))) where['startedById'] = person.id;
+    const rows = await SetupRecord.findAll({ where, ...withParts, order: [['createdAt', 'DESC']], limit: 200 });
+    return rows.map(recordSummary);
+  }
+
+  /**
+   * Save one step as it stands now. The server judges it with the same maths the tablet used and
+   * never trusts the client's figures. A repeated idempotency key returns the entry already saved.
+   */
+  async saveStep(person: Person, recordId: string, req: StepEntryRequest): Promise<{ entry: StepEntryView; created: boolean }> {
+    const replay = await this.replay(recordId, req);
+    if (replay) return { entry: replay, created: false };
+
+    const record = await this.writable(person, recordId);
+    const step = record.procedureVersion!.body.steps.find((s) => s.id === req.stepId);
+    if (!step) throw new AppError(422, 'unknown-step', 'No such step', 'This procedure has no step with that id.', [{ pointer: '#/stepId', detail: 'Not a step of this procedure.' }]);
+    const values = checkValues(step, req.values);
+    const evaluation = evaluateStep(step, values, record.machineSpec);
+    if (!evaluation.complete) {
+      throw new AppError(422, 'step-incomplete', 'The step is not finished', 'Fill in every reading and answer before saving the step.', evaluation.missing.map((id) => ({
+        pointer: `#/values/${id}`,
+        detail: 'This is needed to finish the step.',
+      })));
+    }
+    const outcome = evaluation.outOfLimits ? 'out_of_limits' : 'done';
+    if (outcome === 'out_of_limits' && !req.correctiveNote) {
+      throw new AppError(422, 'corrective-note-needed', 'Out of limits: say what you did', 'A reading is outside its limits. Write what you did about it, then re-measure or finish the record as failed.', [
+        { pointer: '#/correctiveNote', detail: 'Say what you found and what you did about it.' },
+      ]);
+    }
+    const witness = step.powered ? await this.witnessFor(person, req) : null;
+    const photoIds = step.inputs.filter((i) => i.type === 'photo').flatMap((i) => (values[i.id] as string[] | undefined) ?? []);
+
+    try {
+      const entry = await this.sequelize.transaction(async (transaction) => {
+        await SetupRecord.findByPk(record.id, { transaction, lock: transaction.LOCK.UPDATE });
+        await this.attachPhotos(person, record.id, photoIds, transaction);
+        const last = (await StepEntry.max('attempt', { where: { recordId: record.id, stepId: step.id }, transaction })) as number | null;
+        const created = await StepEntry.create(
+          {
+            recordId: record.id,
+            stepId: step.id,
+            attempt: (last ?? 0) + 1,
+            values,
+            evaluation,
+            outcome,
+            correctiveNote: req.correctiveNote ?? null,
+            enteredById: person.id,
+            witnessedById: witness?.id ?? null,
+            witnessedAt: witness ? new Date() : null,
+            idempotencyKey: req.idempotencyKey,
+          },
+          { transaction },
+        );
+        if (record.status === 'returned') await SetupRecord.update({ status: 'underway' }, { where: { id: record.id }, transaction });
+        return created;
+      });
+      return { entry: entryView((await StepEntry.findByPk(entry.id, entryPeople))!), created: true };
+    } catch (err) {
+      if (err instanceof UniqueConstraintError) {
+        const again = await this.replay(recordId, req);
+        if (again) return { entry: again, created: false };
+      }
+      throw err;
+    }
+  }
+
+  /** Finish: every step has a current entry; readings left out of limits mark the record failed, when confirmed. */
+  async finish(person: Person, recordId: string, acceptFailed: boolean): Promise<RecordDetail> {
+    const record = await this.writable(person, recordId);
+    const entries = await StepEntry.findAll({ where: { recordId }, order: [['attempt', 'ASC']] });
+    const latest = new Map(entries.map((e) => [e.stepId, e]));
+    const steps = record.procedureVersion!.body.steps;
+    const undone = steps.filter((s) => !latest.has(s.id));
+    if (undone.length) {
+      throw new AppError(409, 'steps-not-done', 'Some steps are not done', `Finish these steps first: ${undone.map((s) => s.title).join('; ')}.`, undefined, {
+        steps: undone.map((s) => s.id),
+      });
+    }
+    const failed = steps.filter((s) => latest.get(s.id)!.outcome === 'out_of_limits');
+    if (failed.length && !acceptFailed) {
+      throw new AppError(409, 'out-of-limits', 'Readings are still out of limits', `Re-measure these steps, or finish the record as failed: ${failed.map((s) => s.title).join('; ')}.`, undefined, {
+        steps: failed.map((s) => s.id),
+      });
+    }
+    await record.update({ status: 'ready_for_signoff', result: failed.length ? 'failed' : 'passed', finishedAt: new Date() });
+    return this.get(person, recordId);
+  }
+
+  async void(person: Person, recordId: string, reason: string): Promise<RecordDetail> {
+    const record = await this.loaded(recordId);
+    const mayVoid = record.startedById === person.id || person.roles.includes('workshop_admin') || person.roles.includes('competent_person');
+    if (!mayVoid) throw AppError.forbidden('Only the person who started a record, a competent person or a workshop admin may void it.');
+    if (record.status !== 'underway' && record.status !== 'returned') throw AppError.conflict('Only a record that is underway or returned can be voided.');
+    await record.update({ status: 'voided', voidReason: reason });
+    return this.get(person, recordId);
+  }
+
+  private async replay(recordId: string, req: StepEntryRequest): Promise<StepEntryView | null> {
+    const existing = await StepEntry.findOne({ where: { idempotencyKey: req.idempotencyKey }, ...entryPeople });
+    if (!existing) return null;
+    if (existing.recordId !== recordId || existing.stepId !== req.stepId) {
+      throw AppError.conflict('That idempotency key was already used for another step.');
+    }
+    return entryView(existing);
+  }
+
+  /** A competent person other than the performer, checked by their own password; or the performer if they are one. */
+  private async witnessFor(person: Person, req: StepEntryRequest): Promise<Person> {
+    if (person.roles.includes('competent_person') && !req.witness) return person;
+    if (!req.witness) {
+      throw new AppError(422, 'witness-needed', 'Power on — witness needed', 'This step runs with power on. A competent person must witness it and enter their own sign-in.', [
+        { pointer: '#/witness/email', detail: 'A competent person enters their email here.' },
+      ]);
+    }
+    const witness = await this.auth.checkCredentials(req.witness.email, req.witness.password);
+    if (!witness) {
+      throw new AppError(422, 'witness-not-accepted', 'Witness not accepted', 'That witness email and password do not match an active account.', [
+        { pointer: '#/witness/password', detail: 'That email and password do not match an active account.' },
+      ]);
+    }
+    if (witness.id === person.id) {
+      throw new AppError(422, 'witness-not-accepted', 'Witness not accepted', 'You cannot witness your own step.', [
+        { pointer: '#/witness/email', detail: 'Someone else must witness this step.' },
+      ]);
+    }
+    if (!witness.roles.includes('competent_person')) {
+      throw new AppError(422, 'witness-not-accepted', 'Witness not accepted', `${witness.displayName} is not a competent person.`, [
+        { pointer: '#/witness/email', detail: 'The witness must be a competent person.' },
+      ]);
+    }
+    return witness;
+  }
+
+  private async attachPhotos(person: Person, recordId: string, ids: string[], transaction: Transaction) {
+    if (!ids.length) return;
+    const photos = await Photo.findAll({ where: { id: { [Op.in]: ids } }, transaction, lock: transaction.LOCK.UPDATE });
+    for (const id of ids) {
+      const photo = photos.find((p) => p.id === id);
+      const ok = photo && photo.ownerId === person.id && (photo.attachedRecordId === null || photo.attachedRecordId === recordId);
+      if (!ok) throw AppError.badRequest('A photo cannot be used here.', [{ pointer: '#/values', detail: `Photo ${id} is not one of your unattached photos.` }]);
+    }
+    await Photo.update({ attachedRecordId: recordId, attachedAt: new Date() }, { where: { id: { [Op.in]: ids }, attachedRecordId: null }, transaction });
+  }
+
+  private async loaded(id: string): Promise<SetupRecord> {
+    const record = await SetupRecord.findByPk(id, withParts);
+    if (!record) throw AppError.notFound('There is no record with that id.');
+    return record;
+  }
+
+  private async readable(person: Person, id: string): Promise<SetupRecord> {
+    const record = await this.loaded(id);
+    if (record.startedById !== person.id && !person.roles.some((r) => (READERS as readonly string[]).includes(r))) {
+      throw AppError.forbidden('This record belongs to someone else.');
+    }
+    return record;
+  }
+
+  /** Only the person who started a record adds to it, and only while it is underway or returned. */
+  private async writable(person: Person, id: string): Promise<SetupRecord> {
+    const record = await this.loaded(id);
+    if (record.startedById !== person.id) throw AppError.forbidden('Only the person who started this record can work on it.');
+    if (record.status !== 'underway' && record.status !== 'returned') {
+      throw AppError.conflict(`This record is ${record.status.replace(/_/g, ' ')} and can no longer be changed.`);
+    }
+    return record;
+  }
+
+  private async detail(record: SetupRecord): Promise<RecordDetail> {
+    const entries = await StepEntry.findAll({ where: { recordId: record.id }, ...entryPeople, order: [['createdAt', 'ASC'], ['attempt', 'ASC']] });
+    return recordDetail(record, entries);
+  }
+}
