@@ -25,7 +25,8 @@ export type Caution = z.infer<typeof cautionSchema>;
 
 /**
  * A value an argument, a limit or a default may take:
- * - { "$input": "gap" } the step's input (a quantity in the input's unit, or the raw choice/yes-no/text)
+ * - { "$input": "gap" } the step's input (a quantity in the input's unit, or the raw choice/yes-no/text;
+ *   add "plain": true for a bare number such as a count)
  * - { "$spec": "wheelDiameterMm", "unit": "mm" } a machine specification figure (a quantity when a unit is given)
  * - { "$computed": "span" } an earlier computed value of the same step (its selected output)
  * - { "$q": 100, "unit": "mm" } a literal quantity
@@ -46,7 +47,14 @@ export const limitsSchema = z
   .refine((l) => l.min !== undefined || l.max !== undefined, 'Give a minimum, a maximum or both.');
 export type Limits = z.infer<typeof limitsSchema>;
 
-const inputBase = { id, label: text(120), help: z.string().max(400).optional(), required: z.boolean().default(true) };
+const inputBase = {
+  id,
+  label: text(120),
+  help: z.string().max(400).optional(),
+  required: z.boolean().default(true),
+  /** Required only when another input of the step has one of these answers (e.g. the gauge reading, when the method is "gauge"). */
+  requiredWhen: z.object({ input: id, in: z.array(z.union([z.string(), z.boolean()])).min(1) }).optional(),
+};
 
 export const inputSchema = z.discriminatedUnion('type', [
   z.object({
@@ -93,6 +101,9 @@ export const computedSchema = z.object({
   limits: limitsSchema.optional(),
   /** For a text result (e.g. a verdict): the values that count as a pass. */
   acceptable: z.array(z.string()).optional(),
+  /** Text results that pass but deserve a warning on screen and in the record (e.g. a stress below the usual target). */
+  advisory: z.array(z.string()).optional(),
+  help: z.string().max(400).optional(),
   /** Only computed when these inputs have values (others are optional). Defaults to every $input the args use. */
   when: z.array(id).optional(),
 });

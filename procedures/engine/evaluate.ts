@@ -10,7 +10,7 @@ export type EntryValues = Record<string, EntryValue | undefined>;
 export type MachineSpec = Record<string, unknown>;
 
 /** pass / fail against limits; 'missing' when required and empty; 'none' when there is nothing to judge. */
-export type Outcome = 'pass' | 'fail' | 'missing' | 'none';
+export type Outcome = 'pass' | 'warn' | 'fail' | 'missing' | 'none';
 
 export interface ResolvedLimits {
   min?: number;
@@ -97,7 +97,7 @@ function resolve(template: unknown, scope: Scope): unknown {
     if (!input) throw new ProcedureDefinitionError(`There is no input "${String(t['$input'])}" in step "${scope.step.id}".`);
     const v = scope.values[input.id];
     if (isEmpty(v)) throw new Pending();
-    return input.type === 'number' ? quantity(Number(v), input.unit) : v;
+    return input.type === 'number' && t['plain'] !== true ? quantity(Number(v), input.unit) : v;
   }
   if ('$spec' in t) {
     const v = specValue(scope.spec, String(t['$spec']));
@@ -127,7 +127,8 @@ function resolveBound(bound: Bound | undefined, spec: MachineSpec, unit: string 
   if (bound === undefined) return undefined;
   if (typeof bound === 'number') return bound;
   const raw = Number(specValue(spec, bound.$spec));
-  return unit ? valueIn(quantity(raw, bound.unit), unit) : raw;
+  if (!unit || unit === bound.unit) return raw;
+  return Number(valueIn(quantity(raw, bound.unit), unit).toPrecision(12));
 }
 
 export function resolveLimits(limits: Limits | undefined, spec: MachineSpec, unit?: string): ResolvedLimits | undefined {
@@ -144,8 +145,18 @@ export function withinLimits(value: number, limits: ResolvedLimits | undefined, 
   return true;
 }
 
-function judgeInput(input: StepInput, value: EntryValue | undefined, spec: MachineSpec): InputResult {
-  if (isEmpty(value)) return { id: input.id, outcome: input.required ? 'missing' : 'none' };
+/** Required outright, or because another input has one of the named answers. */
+function isRequired(input: StepInput, values: EntryValues): boolean {
+  if (input.requiredWhen) return input.requiredWhen.in.includes(values[input.requiredWhen.input] as string | boolean);
+  return input.required;
+}
+
+function judgeInput(input: StepInput, values: EntryValues, spec: MachineSpec): InputResult {
+  const value = values[input.id];
+  if (isEmpty(value)) {
+    const limits = input.type === 'number' ? resolveLimits(input.limits, spec, input.unit) : undefined;
+    return { id: input.id, outcome: isRequired(input, values) ? 'missing' : 'none', limits };
+  }
   switch (input.type) {
     case 'number': {
       const limits = resolveLimits(input.limits, spec, input.unit);
@@ -171,14 +182,16 @@ function judgeInput(input: StepInput, value: EntryValue | undefined, spec: Machi
 
 function limitMessage(l: ResolvedLimits): string {
   const u = l.unit ? ` ${l.unit}` : '';
-  if (l.min !== undefined && l.max !== undefined) return `Outside ${l.min}–${l.max}${u}.`;
-  if (l.min !== undefined) return `Below the minimum of ${l.min}${u}.`;
-  return `Above the maximum of ${l.max}${u}.`;
+  const n = (v: number) => String(Number(v.toPrecision(6)));
+  if (l.min !== undefined && l.max !== undefined) return `Outside ${n(l.min)}–${n(l.max)}${u}.`;
+  if (l.min !== undefined) return `Below the minimum of ${n(l.min)}${u}.`;
+  return `Above the maximum of ${n(l.max!)}${u}.`;
 }
 
 function compute(field: ComputedField, scope: Scope): ComputedResult {
   const base = { id: field.id, label: field.label, unit: field.unit };
   if (!isMathsFunctionName(field.fn)) throw new ProcedureDefinitionError(`There is no maths function "${field.fn}".`);
+  if (field.when?.some((id) => isEmpty(scope.values[id]))) return { ...base, value: null, display: '—', outcome: 'none' };
   let args: unknown;
   try {
     args = resolve(field.args, scope);
@@ -208,13 +221,15 @@ function compute(field: ComputedField, scope: Scope): ComputedResult {
     return { ...base, unit, value, display, outcome, limits, detail: result };
   }
   const value = String(out);
-  const outcome: Outcome = field.acceptable ? (field.acceptable.includes(value) ? 'pass' : 'fail') : 'none';
+  let outcome: Outcome = 'none';
+  if (field.advisory?.includes(value)) outcome = 'warn';
+  else if (field.acceptable) outcome = field.acceptable.includes(value) ? 'pass' : 'fail';
   return { ...base, unit: undefined, value, display: value, outcome, detail: result };
 }
 
 /** Judge every input of a step and work out its computed values, in order. */
 export function evaluateStep(step: Step, values: EntryValues, spec: MachineSpec): StepEvaluation {
-  const inputs = step.inputs.map((input) => judgeInput(input, values[input.id], spec));
+  const inputs = step.inputs.map((input) => judgeInput(input, values, spec));
   const scope: Scope = { step, values, spec, computed: new Map() };
   const computed: ComputedResult[] = [];
   for (const field of step.computed) {

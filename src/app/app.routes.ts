@@ -20,6 +20,21 @@ export const routes: Routes = [
         title: 'Machines · Setwright',
         loadComponent: () => import('./features/machines/machine-list').then((m) => m.MachineList),
       },
+      {
+        path: 'workshop-maths',
+        title: 'Workshop maths · Setwright',
+        loadComponent: () => import('./features/workshop-maths/workshop-maths').then((m) => m.WorkshopMaths),
+      },
+      {
+        path: 'machines/:id',
+        title: 'Machine · Setwright',
+        loadComponent: () => import('./features/machines/machine-page').then((m) => m.MachinePage),
+      },
+      {
+        path: 'records/:id',
+        title: 'Record · Setwright',
+        loadComponent: () => import('./features/records/record-runner').then((m) => m.RecordRunner),
+      },
     ],
   },
   { path: '**', redirectTo: 'today' },

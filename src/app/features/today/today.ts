@@ -1,4 +1,8 @@
 import { ChangeDetectionStrategy, Component, computed, inject, input } from '@angular/core';
+import { rxResource } from '@angular/core/rxjs-interop';
+import { RECORD_STATUS_LABELS } from '@setwright/contracts/records';
+import { of } from 'rxjs';
+import { RecordApi } from '../records/record-api';
 import { MatButtonModule } from '@angular/material/button';
 import { MatCardModule } from '@angular/material/card';
 import { MatIconModule } from '@angular/material/icon';
@@ -48,5 +52,14 @@ export class Today {
   protected readonly roles = computed(() =>
     this.session.roles().map((role) => ({ role, label: ROLE_LABELS[role], duties: DUTIES[role] })),
   );
+  private readonly api = inject(RecordApi);
+  protected readonly runs = computed(() => this.session.hasAnyRole(['trainee', 'competent_person']));
+  /** The person's own records that are still open: underway, or returned to them. */
+  protected readonly open = rxResource({
+    params: () => this.runs(),
+    stream: ({ params }) => (params ? this.api.list({ mine: true }) : of([])),
+  });
+  protected readonly openRecords = computed(() => (this.open.value() ?? []).filter((r) => r.status === 'underway' || r.status === 'returned'));
+  protected readonly statusLabels = RECORD_STATUS_LABELS;
   protected readonly places = computed(() => PLACES.filter((p) => p.path !== '/today' && this.session.hasAnyRole(p.roles)));
 }

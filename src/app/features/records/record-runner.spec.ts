@@ -1,0 +1,124 @@
+import { provideHttpClient, withInterceptors } from '@angular/common/http';
+import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
+import { provideZonelessChangeDetection } from '@angular/core';
+import { TestBed } from '@angular/core/testing';
+import { TestbedHarnessEnvironment } from '@angular/cdk/testing/testbed';
+import { MatButtonHarness } from '@angular/material/button/testing';
+import { MatStepperHarness } from '@angular/material/stepper/testing';
+import { provideRouter } from '@angular/router';
+import type { RecordDetail } from '@setwright/contracts/records';
+import { procedureSchema } from '@setwright/procedures/schema';
+import { problemInterceptor, tokenInterceptor } from '../../core/interceptors';
+import { Session } from '../../core/session';
+import { RecordRunner } from './record-runner';
+
+const body = procedureSchema.parse({
+  key: 'runner-fixture',
+  version: 3,
+  title: 'Fitting a blade',
+  intendedUse: 'Tests.',
+  scope: 'Tests.',
+  machineKind: 'horizontal_bandsaw',
+  hazards: ['Sharp blade'],
+  ppe: [{ level: 'mandatory', code: 'M004', text: 'Wear eye protection.' }],
+  steps: [
+    { id: 'isolate', title: 'Isolate the saw', kind: 'isolation', instruction: 'Isolate it.', inputs: [{ id: 'lock', type: 'text', label: 'Lock number' }] },
+    { id: 'track', title: 'Track under power', kind: 'check', powered: true, instruction: 'Run it.', inputs: [{ id: 'clear', type: 'yesno', label: 'Runs clear', expected: true }] },
+  ],
+});
+
+function record(entries: RecordDetail['entries'], status: RecordDetail['status'] = 'underway'): RecordDetail {
+  return {
+    id: 'r1',
+    status,
+    result: null,
+    machine: { id: 'm1', name: 'Bay 2 bandsaw', assetTag: 'BFW-SAW-01' },
+    procedure: { id: 'p1', key: body.key, version: 3, title: body.title },
+    startedBy: { id: 'u1', displayName: 'Ellis' },
+    createdAt: new Date().toISOString(),
+    finishedAt: null,
+    procedureBody: body,
+    machineSpec: {},
+    entries,
+    voidReason: null,
+  };
+}
+
+const isolated = {
+  id: 'e1',
+  stepId: 'isolate',
+  attempt: 1,
+  values: { lock: 'L7' },
+  evaluation: { inputs: [], computed: [], complete: true, outOfLimits: false, missing: [] },
+  outcome: 'done' as const,
+  correctiveNote: null,
+  enteredBy: { id: 'u1', displayName: 'Ellis' },
+  witnessedBy: null,
+  witnessedAt: null,
+  idempotencyKey: '00000000-0000-4000-8000-000000000001',
+  createdAt: new Date().toISOString(),
+};
+
+describe('RecordRunner', () => {
+  async function setUp(detail: RecordDetail) {
+    TestBed.configureTestingModule({
+      imports: [RecordRunner],
+      providers: [
+        provideZonelessChangeDetection(),
+        provideRouter([]),
+        provideHttpClient(withInterceptors([problemInterceptor, tokenInterceptor])),
+        provideHttpClientTesting(),
+      ],
+    });
+    const http = TestBed.inject(HttpTestingController);
+    const session = TestBed.inject(Session);
+    const signingIn = session.signIn({ email: 'e@tests.example', password: 'p' });
+    http.expectOne('/api/auth/login').flush({ accessToken: 't', expiresIn: 900, user: { id: 'u1', email: 'e@tests.example', displayName: 'Ellis', roles: ['trainee'] } });
+    await signingIn;
+    const fixture = TestBed.createComponent(RecordRunner);
+    fixture.componentRef.setInput('id', 'r1');
+    fixture.detectChanges();
+    http.expectOne('/api/records/r1').flush(detail);
+    await fixture.whenStable();
+    return { fixture, http, loader: TestbedHarnessEnvironment.loader(fixture) };
+  }
+  afterEach(() => TestBed.inject(HttpTestingController).verify());
+
+  it('when a record is opened, then each step shows its state, and a powered step waits for a witness', async () => {
+    const { loader } = await setUp(record([isolated]));
+    const stepper = await loader.getHarness(MatStepperHarness);
+    const steps = await stepper.getSteps();
+    const labels = await Promise.all(steps.map((s) => s.getLabel()));
+    expect(labels[0]).toContain('Isolate the saw');
+    expect(labels[0]).toContain('Done');
+    expect(labels[1]).toContain('Track under power');
+    expect(labels[1]).toContain('Waiting for witness');
+    expect(labels[2]).toContain('Finish');
+  });
+
+  it('when a step is not yet saved, then finishing is not offered', async () => {
+    const { loader } = await setUp(record([isolated]));
+    const stepper = await loader.getHarness(MatStepperHarness);
+    await stepper.selectStep({ label: /Finish/ });
+    const finish = await loader.getHarness(MatButtonHarness.with({ text: 'Finish and send for sign-off' }));
+    expect(await finish.isDisabled()).toBeTrue();
+  });
+
+  it('when every step is saved and finished, then the record says it is ready for sign-off', async () => {
+    const tracked = { ...isolated, id: 'e2', stepId: 'track', values: { clear: true }, witnessedBy: { id: 'u2', displayName: 'Dougal' }, idempotencyKey: '00000000-0000-4000-8000-000000000002' };
+    const { loader, http, fixture } = await setUp(record([isolated, tracked]));
+    const stepper = await loader.getHarness(MatStepperHarness);
+    await stepper.selectStep({ label: /Finish/ });
+    const finish = await loader.getHarness(MatButtonHarness.with({ text: 'Finish and send for sign-off' }));
+    expect(await finish.isDisabled()).toBeFalse();
+    const clicking = finish.click();
+    await new Promise((r) => setTimeout(r));
+    const req = http.expectOne('/api/records/r1/finish');
+    expect(req.request.body).toEqual({ acceptFailed: false });
+    req.flush({ ...record([isolated, tracked], 'ready_for_signoff'), result: 'passed' });
+    await clicking;
+    await new Promise((r) => setTimeout(r, 50));
+    await fixture.whenStable();
+    expect((fixture.nativeElement as HTMLElement).textContent).toContain('ready for sign-off');
+  });
+});

@@ -1,0 +1,84 @@
+import { ChangeDetectionStrategy, Component, computed, inject, input, signal, viewChild } from '@angular/core';
+import { rxResource } from '@angular/core/rxjs-interop';
+import { BreakpointObserver } from '@angular/cdk/layout';
+import { toSignal } from '@angular/core/rxjs-interop';
+import { MatButtonModule } from '@angular/material/button';
+import { MatIconModule } from '@angular/material/icon';
+import { MatProgressBarModule } from '@angular/material/progress-bar';
+import { MatStepper, MatStepperModule } from '@angular/material/stepper';
+import { RouterLink } from '@angular/router';
+import { map } from 'rxjs';
+import { RECORD_STATUS_LABELS, type RecordDetail, type StepEntryView } from '@setwright/contracts/records';
+import { toProblem } from '../../core/problem';
+import { Session } from '../../core/session';
+import { CautionList } from '../../shared/ui/caution/caution-list';
+import { SafetyNote } from '../../shared/ui/safety-note';
+import { RecordApi } from './record-api';
+import { StepForm } from './step-form';
+import { latestEntries, STEP_STATE_LABELS, stepState } from './step-state';
+
+/** The runner: a set-up record done step by step at the saw, saved as each step is done. */
+@Component({
+  selector: 'sw-record-runner',
+  imports: [MatStepperModule, MatButtonModule, MatIconModule, MatProgressBarModule, RouterLink, StepForm, CautionList, SafetyNote],
+  templateUrl: './record-runner.html',
+  styleUrl: './record-runner.scss',
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class RecordRunner {
+  private readonly api = inject(RecordApi);
+  private readonly session = inject(Session);
+  /** The record id, from the route. */
+  readonly id = input.required<string>();
+
+  private readonly stepper = viewChild(MatStepper);
+  protected readonly record = rxResource({ params: () => this.id(), stream: ({ params }) => this.api.get(params) });
+  protected readonly finishing = signal(false);
+  protected readonly finishProblem = signal<string | null>(null);
+  protected readonly narrow = toSignal(inject(BreakpointObserver).observe('(max-width: 700px)').pipe(map((s) => s.matches)), { initialValue: false });
+
+  protected readonly statusLabel = computed(() => {
+    const r = this.record.value();
+    return r ? RECORD_STATUS_LABELS[r.status] : '';
+  });
+  protected readonly mine = computed(() => this.record.value()?.startedBy.id === this.session.user()?.id);
+  protected readonly writable = computed(() => {
+    const r = this.record.value();
+    return !!r && this.mine() && (r.status === 'underway' || r.status === 'returned');
+  });
+  protected readonly selfWitness = computed(() => this.session.roles().includes('competent_person'));
+  protected readonly steps = computed(() => {
+    const r = this.record.value();
+    if (!r) return [];
+    const latest = latestEntries(r.entries);
+    return r.procedureBody.steps.map((step) => {
+      const entry = latest.get(step.id);
+      const state = stepState(step, entry);
+      return { step, entry, state, stateLabel: STEP_STATE_LABELS[state] };
+    });
+  });
+  protected readonly doneCount = computed(() => this.steps().filter((s) => s.entry).length);
+  protected readonly outOfLimits = computed(() => this.steps().filter((s) => s.state === 'out_of_limits'));
+
+  protected onSaved(index: number, entry: StepEntryView) {
+    this.record.update((r) => (r ? ({ ...r, entries: [...r.entries, entry] } satisfies RecordDetail) : r));
+    const next = this.steps().findIndex((s, i) => i > index && !s.entry);
+    const stepper = this.stepper();
+    if (stepper) stepper.selectedIndex = next >= 0 ? next : this.steps().length;
+  }
+
+  protected async finish(acceptFailed: boolean) {
+    const r = this.record.value();
+    if (!r) return;
+    this.finishing.set(true);
+    this.finishProblem.set(null);
+    try {
+      this.record.set(await this.api.finish(r.id, acceptFailed));
+    } catch (err) {
+      const p = toProblem(err);
+      this.finishProblem.set(p.detail ?? p.title);
+    } finally {
+      this.finishing.set(false);
+    }
+  }
+}

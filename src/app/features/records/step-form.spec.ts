@@ -1,0 +1,202 @@
+import { provideHttpClient, withInterceptors } from '@angular/common/http';
+import { HttpTestingController, provideHttpClientTesting, type TestRequest } from '@angular/common/http/testing';
+import { provideZonelessChangeDetection } from '@angular/core';
+import { TestBed } from '@angular/core/testing';
+import { TestbedHarnessEnvironment } from '@angular/cdk/testing/testbed';
+import { MatButtonHarness } from '@angular/material/button/testing';
+import { MatButtonToggleHarness } from '@angular/material/button-toggle/testing';
+import { MatInputHarness } from '@angular/material/input/testing';
+import { provideRouter } from '@angular/router';
+import { bladeStress, quantity, valueIn } from '@setwright/maths';
+import type { StepEntryView } from '@setwright/contracts/records';
+import { procedureSchema, type Step } from '@setwright/procedures/schema';
+import { problemInterceptor, tokenInterceptor } from '../../core/interceptors';
+import { ReadingFieldHarness } from '../../shared/ui/reading-field/reading-field-harness';
+import { StepForm } from './step-form';
+
+const procedure = procedureSchema.parse({
+  key: 'spec-fixture',
+  version: 1,
+  title: 'Spec fixture',
+  intendedUse: 'Component tests.',
+  scope: 'Tests.',
+  machineKind: 'horizontal_bandsaw',
+  hazards: ['Sharp blade'],
+  steps: [
+    {
+      id: 'tension',
+      title: 'Read the tension gauge',
+      kind: 'reading',
+      instruction: 'Read the gauge.',
+      cautions: [{ level: 'mandatory', code: 'M009', text: 'Gloves while the saw is isolated.' }],
+      inputs: [
+        {
+          id: 'reading',
+          type: 'number',
+          label: 'Gauge reading',
+          unit: 'kgf',
+          decimals: 0,
+          limits: { min: { $spec: 'tensionRangeKgf.min', unit: 'kgf' }, max: { $spec: 'tensionRangeKgf.max', unit: 'kgf' } },
+        },
+      ],
+      computed: [
+        {
+          id: 'stress',
+          label: 'Stress in one strand',
+          fn: 'bladeStress',
+          args: { force: { $input: 'reading' }, reads: { $spec: 'tensionReads' }, width: { $spec: 'bladeWidthMm', unit: 'mm' }, thickness: { $spec: 'bladeThicknessMm', unit: 'mm' } },
+          output: 'stress',
+          unit: 'MPa',
+          decimals: 1,
+        },
+      ],
+    },
+    { id: 'track', title: 'Track under power', kind: 'check', powered: true, instruction: 'Run it.', inputs: [{ id: 'clear', type: 'yesno', label: 'Runs clear of the flange', expected: true }] },
+  ],
+});
+const spec = { tensionRangeKgf: { min: 700, max: 900 }, tensionReads: 'wheel-load', bladeWidthMm: 27, bladeThicknessMm: 0.9 };
+
+function entryFrom(req: TestRequest, outcome: 'done' | 'out_of_limits' = 'done'): StepEntryView {
+  const body = req.request.body;
+  return {
+    id: 'e1',
+    stepId: body.stepId,
+    attempt: 1,
+    values: body.values,
+    evaluation: { inputs: [], computed: [], complete: true, outOfLimits: outcome !== 'done', missing: [] },
+    outcome,
+    correctiveNote: body.correctiveNote ?? null,
+    enteredBy: { id: 'u1', displayName: 'Ellis' },
+    witnessedBy: null,
+    witnessedAt: null,
+    idempotencyKey: body.idempotencyKey,
+    createdAt: new Date().toISOString(),
+  };
+}
+
+describe('StepForm', () => {
+  async function setUp(step: Step) {
+    TestBed.configureTestingModule({
+      imports: [StepForm],
+      providers: [
+        provideZonelessChangeDetection(),
+        provideRouter([]),
+        provideHttpClient(withInterceptors([problemInterceptor, tokenInterceptor])),
+        provideHttpClientTesting(),
+      ],
+    });
+    const fixture = TestBed.createComponent(StepForm);
+    fixture.componentRef.setInput('recordId', 'r1');
+    fixture.componentRef.setInput('step', step);
+    fixture.componentRef.setInput('spec', spec);
+    const saved: StepEntryView[] = [];
+    fixture.componentInstance.saved.subscribe((e) => saved.push(e));
+    await fixture.whenStable();
+    const loader = TestbedHarnessEnvironment.loader(fixture);
+    const root = TestbedHarnessEnvironment.documentRootLoader(fixture);
+    const http = TestBed.inject(HttpTestingController);
+    /** Click a button and answer the request it sends (the click waits for the app, which waits for the request). */
+    const clickAndAnswer = async (button: MatButtonHarness, answer: (req: TestRequest) => void) => {
+      const clicking = button.click();
+      // The request may wait for a dialog to finish closing: look for it for up to a second.
+      let found: TestRequest[] = [];
+      for (let i = 0; i < 40 && found.length === 0; i++) {
+        await new Promise((r) => setTimeout(r, 25));
+        found = http.match('/api/records/r1/entries');
+      }
+      expect(found.length).withContext('one entry request').toBe(1);
+      answer(found[0]!);
+      await clicking;
+      await new Promise((r) => setTimeout(r, 50));
+      await fixture.whenStable();
+    };
+    return { fixture, loader, root, http, saved, clickAndAnswer };
+  }
+  afterEach(() => TestBed.inject(HttpTestingController).verify());
+
+  it('when a reading is inside the machine’s range, then it says so and shows the library’s stress', async () => {
+    const { loader, fixture } = await setUp(procedure.steps[0]!);
+    const reading = await loader.getHarness(ReadingFieldHarness);
+    expect(await reading.getLimits()).toContain('Limits 700–900 kgf');
+    await reading.setValue('800');
+    expect(await reading.getVerdict()).toBe('Within limits');
+    const expected = valueIn(bladeStress({ force: quantity(800, 'kgf'), reads: 'wheel-load', width: quantity(27, 'mm'), thickness: quantity(0.9, 'mm') }).stress, 'MPa');
+    const figure = (fixture.nativeElement as HTMLElement).querySelector('.figure-value')!.textContent!.trim();
+    expect(figure).toBe(`${expected.toFixed(1)} MPa`);
+  });
+
+  it('when a reading is out of limits, then it needs a corrective note before it is sent', async () => {
+    const { loader, http } = await setUp(procedure.steps[0]!);
+    const reading = await loader.getHarness(ReadingFieldHarness);
+    await reading.setValue('650');
+    expect(await reading.getVerdict()).toBe('Out of limits');
+    const save = await loader.getHarness(MatButtonHarness.with({ text: 'Save step' }));
+    await save.click();
+    http.expectNone('/api/records/r1/entries');
+    const note = await loader.getHarness(MatInputHarness.with({ selector: 'textarea' }));
+    expect(note).toBeTruthy();
+    expect(document.querySelector('.message')!.textContent).toContain('out of limits');
+  });
+
+  it('when a noted out-of-limits reading is saved, then the values, the note and a UUID key go to the server', async () => {
+    const { loader, saved, clickAndAnswer } = await setUp(procedure.steps[0]!);
+    await (await loader.getHarness(ReadingFieldHarness)).setValue('650');
+    await (await loader.getHarness(MatInputHarness.with({ selector: 'textarea' }))).setValue('Gauge read low; wound the tension up.');
+    let sent: { idempotencyKey: string; values: object; correctiveNote: string } | undefined;
+    await clickAndAnswer(await loader.getHarness(MatButtonHarness.with({ text: 'Save step' })), (req) => {
+      sent = req.request.body;
+      req.flush(entryFrom(req, 'out_of_limits'), { status: 201, statusText: 'Created' });
+    });
+    expect(sent!.values).toEqual({ reading: 650 });
+    expect(sent!.correctiveNote).toBe('Gauge read low; wound the tension up.');
+    expect(sent!.idempotencyKey).toMatch(/^[0-9a-f-]{36}$/);
+    expect(saved.length).toBe(1);
+  });
+
+  it('when the connection drops, then the entries stay and the retry sends the same key', async () => {
+    const { loader, clickAndAnswer } = await setUp(procedure.steps[0]!);
+    await (await loader.getHarness(ReadingFieldHarness)).setValue('800');
+    const save = await loader.getHarness(MatButtonHarness.with({ text: 'Save step' }));
+    const keys: string[] = [];
+    await clickAndAnswer(save, (req) => {
+      keys.push(req.request.body.idempotencyKey);
+      req.error(new ProgressEvent('error'), { status: 0, statusText: 'Unknown Error' });
+    });
+    expect(document.querySelector('.message')!.textContent).toContain('save again when the connection is back');
+    expect(await (await loader.getHarness(ReadingFieldHarness)).getValue()).toBe('800');
+    await clickAndAnswer(save, (req) => {
+      keys.push(req.request.body.idempotencyKey);
+      req.flush(entryFrom(req), { status: 201, statusText: 'Created' });
+    });
+    expect(keys[0]).toBe(keys[1]!);
+  });
+
+  it('when the server points at a value, then its message shows on that field', async () => {
+    const { loader, clickAndAnswer } = await setUp(procedure.steps[0]!);
+    await (await loader.getHarness(ReadingFieldHarness)).setValue('800');
+    await clickAndAnswer(await loader.getHarness(MatButtonHarness.with({ text: 'Save step' })), (req) =>
+      req.flush(
+        { type: '/problems/validation', title: 'Your request has mistakes in it', status: 400, detail: 'Some values do not fit this step.', errors: [{ pointer: '#/values/reading', detail: 'Gauge reading: enter a number in kgf.' }] },
+        { status: 400, statusText: 'Bad Request', headers: { 'content-type': 'application/problem+json' } },
+      ),
+    );
+    expect(document.querySelector('sw-reading-field mat-error')!.textContent).toContain('enter a number in kgf');
+  });
+
+  it('when a powered step is saved by a trainee, then a witness enters their own sign-in and it goes with the entry', async () => {
+    const { loader, root, clickAndAnswer, saved } = await setUp(procedure.steps[1]!);
+    expect(document.querySelector('.powered')!.textContent).toContain('Power on — witness needed');
+    await (await loader.getHarness(MatButtonToggleHarness.with({ text: 'Yes' }))).check();
+    await (await loader.getHarness(MatButtonHarness.with({ text: 'Call a witness and save' }))).click();
+    await (await root.getHarness(MatInputHarness.with({ selector: '[formControlName=email]' }))).setValue('dougal@tests.example');
+    await (await root.getHarness(MatInputHarness.with({ selector: '[formControlName=password]' }))).setValue('secret');
+    let witness: unknown;
+    await clickAndAnswer(await root.getHarness(MatButtonHarness.with({ text: 'Witness and save' })), (req) => {
+      witness = req.request.body.witness;
+      expect(req.request.body.values).toEqual({ clear: true });
+      req.flush(entryFrom(req), { status: 201, statusText: 'Created' });
+    });
+    expect(witness).toEqual({ email: 'dougal@tests.example', password: 'secret' });
+    expect(saved.length).toBe(1);
+  });
+});

@@ -1,0 +1,27 @@
+import type { StepEntryView } from '@setwright/contracts/records';
+import type { Step } from '@setwright/procedures/schema';
+
+/** A step's state on the runner, in our own words. */
+export type StepState = 'not_started' | 'done' | 'out_of_limits' | 'waiting_for_witness';
+
+export const STEP_STATE_LABELS: Record<StepState, string> = {
+  not_started: 'Not started',
+  done: 'Done',
+  out_of_limits: 'Out of limits',
+  waiting_for_witness: 'Waiting for witness',
+};
+
+export function stepState(step: Step, latest: StepEntryView | undefined): StepState {
+  if (!latest) return step.powered ? 'waiting_for_witness' : 'not_started';
+  return latest.outcome === 'done' ? 'done' : 'out_of_limits';
+}
+
+/** The latest attempt of each step (entries come oldest first). */
+export function latestEntries(entries: readonly StepEntryView[]): Map<string, StepEntryView> {
+  const latest = new Map<string, StepEntryView>();
+  for (const e of entries) {
+    const seen = latest.get(e.stepId);
+    if (!seen || seen.attempt < e.attempt) latest.set(e.stepId, e);
+  }
+  return latest;
+}

@@ -1,0 +1,51 @@
+import { mkdirSync } from 'node:fs';
+import type { Server } from 'node:http';
+import type { AddressInfo } from 'node:net';
+import { join, resolve } from 'node:path';
+import { after } from 'node:test';
+import { chromium, type Browser, type Page } from 'playwright-core';
+import { createApp } from '../../api/app';
+import { createLogger } from '../../api/lib/logger';
+import { db, testConfig } from './api';
+
+export const ARTEFACTS = resolve(import.meta.dirname, '..', '..', 'test-results');
+
+/** The production build served by the real API on a free port, for the length of the test file. */
+export async function startServer(): Promise<string> {
+  const config = testConfig({ STATIC_DIR: resolve(import.meta.dirname, '..', '..', 'dist', 'setwright', 'browser'), COOKIE_SECURE: 'false' });
+  const app = createApp({ config, sequelize: db(), logger: createLogger('silent') });
+  const server: Server = await new Promise((ok) => {
+    const s = app.listen(0, '127.0.0.1', () => ok(s));
+  });
+  after(() => new Promise<void>((ok) => {
+    server.closeAllConnections();
+    server.close(() => ok());
+  }));
+  return `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
+}
+
+/** Debian's Chromium, headless, never a downloaded browser. */
+export async function launchBrowser(): Promise<Browser> {
+  const browser = await chromium.launch({
+    executablePath: process.env['CHROME_BIN'] ?? '/usr/bin/chromium',
+    args: ['--headless', '--no-sandbox', '--disable-gpu', '--disable-background-networking', '--disable-component-update', '--disable-sync', '--no-first-run', '--disable-dev-shm-usage'],
+  });
+  after(() => browser.close());
+  return browser;
+}
+
+/** Save a screenshot as a test artefact under test-results/. */
+export async function screenshot(page: Page, name: string): Promise<string> {
+  mkdirSync(ARTEFACTS, { recursive: true });
+  const path = join(ARTEFACTS, `${name}.png`);
+  await page.screenshot({ path, fullPage: false });
+  return path;
+}
+
+export async function signInThroughPage(page: Page, base: string, email: string, password: string) {
+  await page.goto(`${base}/sign-in`);
+  await page.getByLabel('Email').fill(email);
+  await page.getByLabel('Password').fill(password);
+  await page.getByRole('button', { name: 'Sign in' }).click();
+  await page.waitForURL(/\/today/);
+}
