@@ -76,6 +76,8 @@ try {
   stack = await startStack({
     pgDir: join(tmp, 'pg'),
     pgPort: await freePort(),
+    s3Dir: join(tmp, 's3'),
+    s3Port: await freePort(),
     apiPort: 0,
     secrets: throwawaySecrets(),
     nodeEnv: 'test',
@@ -96,11 +98,13 @@ try {
     const chrome = { CHROME_BIN: process.env['CHROME_BIN'] ?? '/usr/bin/chromium' };
     tallies.push(karmaTally(await runCommand('npx', ['ng', 'test', '--watch=false', '--progress=false'], chrome)));
   }
-  for (const folder of ['maths', 'api']) {
+  // e2e drives Debian's Chromium against the production build served by the real API (build it first).
+  for (const folder of ['maths', 'procedures', 'api', 'e2e']) {
     const files = testFiles(folder);
     if (!wanted(folder) || files.length === 0) continue;
     say(`${folder} tests…`);
-    const r = await runCommand('node', ['--import', 'tsx', '--test', '--test-reporter=spec', ...files], env);
+    const serial = folder === 'e2e' ? ['--test-concurrency=1'] : [];
+    const r = await runCommand('node', ['--import', 'tsx', '--test', '--test-reporter=spec', ...serial, ...files], env);
     tallies.push(nodeTally(`${folder} tests`, r));
   }
 } catch (err) {

@@ -10,6 +10,12 @@ import { db, testConfig } from './api';
 
 export const ARTEFACTS = resolve(import.meta.dirname, '..', '..', 'test-results');
 
+/** Closed after the whole test file (a hook registered inside a test or hook would run too early). */
+const cleanups: (() => Promise<void>)[] = [];
+after(async () => {
+  for (const clean of cleanups.reverse()) await clean();
+});
+
 /** The production build served by the real API on a free port, for the length of the test file. */
 export async function startServer(): Promise<string> {
   const config = testConfig({ STATIC_DIR: resolve(import.meta.dirname, '..', '..', 'dist', 'setwright', 'browser'), COOKIE_SECURE: 'false' });
@@ -17,10 +23,13 @@ export async function startServer(): Promise<string> {
   const server: Server = await new Promise((ok) => {
     const s = app.listen(0, '127.0.0.1', () => ok(s));
   });
-  after(() => new Promise<void>((ok) => {
-    server.closeAllConnections();
-    server.close(() => ok());
-  }));
+  cleanups.push(
+    () =>
+      new Promise<void>((ok) => {
+        server.closeAllConnections();
+        server.close(() => ok());
+      }),
+  );
   return `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
 }
 
@@ -30,7 +39,7 @@ export async function launchBrowser(): Promise<Browser> {
     executablePath: process.env['CHROME_BIN'] ?? '/usr/bin/chromium',
     args: ['--headless', '--no-sandbox', '--disable-gpu', '--disable-background-networking', '--disable-component-update', '--disable-sync', '--no-first-run', '--disable-dev-shm-usage'],
   });
-  after(() => browser.close());
+  cleanups.push(() => browser.close());
   return browser;
 }
 
