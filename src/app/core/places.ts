@@ -15,4 +15,5 @@ const EVERYONE: readonly Role[] = ['trainee', 'competent_person', 'auditor', 'wo
 export const PLACES: readonly Place[] = [
   { path: '/today', label: 'Today', icon: 'home', roles: EVERYONE, summary: 'Your work: what to do next.' },
   { path: '/machines', label: 'Machines', icon: 'precision_manufacturing', roles: EVERYONE, summary: 'The machine register and each saw’s figures.' },
+  { path: '/workshop-maths', label: 'Workshop maths', icon: 'calculate', roles: EVERYONE, summary: 'Blade speed, pitch, tension, belts and squareness, worked out.' },
 ];
