@@ -9,6 +9,7 @@ import type { Sequelize } from 'sequelize';
 import type { Config } from './config';
 import { createPassport, requireSignIn } from './lib/access';
 import { createLogger } from './lib/logger';
+import { ObjectStore } from './lib/object-store';
 import { apiNotFound, problemHandler } from './lib/problem-handler';
 import { authRouter } from './modules/auth/router';
 import { AuthService } from './modules/auth/service';
@@ -16,15 +17,29 @@ import { TokenService } from './modules/auth/tokens';
 import { healthRouter } from './modules/health/router';
 import { machinesRouter } from './modules/machines/router';
 import { peopleRouter } from './modules/people/router';
+import { photosRouter } from './modules/photos/router';
+import { proceduresRouter } from './modules/procedures/router';
+import { recordsRouter } from './modules/records/router';
+import { RecordService } from './modules/records/service';
+import { signOffQueueRouter, signOffRouter } from './modules/signoff/router';
+import { SignOffService } from './modules/signoff/service';
+import { PhotoService } from './modules/photos/service';
 
 export interface AppDeps {
   config: Config;
   sequelize: Sequelize;
   logger?: Logger;
+  /** The photo store; made from config when not given. */
+  objectStore?: ObjectStore;
 }
 
 /** Build the Express app (no listen): the API under /api and, when built, the client app. */
-export function createApp({ config, sequelize, logger = createLogger(config.LOG_LEVEL) }: AppDeps): Express {
+export function createApp({
+  config,
+  sequelize,
+  logger = createLogger(config.LOG_LEVEL),
+  objectStore = new ObjectStore(config),
+}: AppDeps): Express {
   const app = express();
   app.disable('x-powered-by');
   app.set('query parser', 'simple');
@@ -56,6 +71,7 @@ export function createApp({ config, sequelize, logger = createLogger(config.LOG_
   const tokens = new TokenService(config);
   const auth = new AuthService(tokens, config.REFRESH_TOKEN_HOURS, config.BCRYPT_COST);
   const passport = createPassport(tokens);
+  const photos = new PhotoService(objectStore, config.PHOTO_MAX_PIXELS, logger);
 
   const api = Router();
   api.use(express.json({ limit: '1mb' }));
@@ -70,6 +86,14 @@ export function createApp({ config, sequelize, logger = createLogger(config.LOG_
   const signedIn = requireSignIn(passport);
   api.use('/people', signedIn, peopleRouter());
   api.use('/machines', signedIn, machinesRouter());
+  api.use('/photos', signedIn, photosRouter(photos, config));
+  api.use('/procedures', signedIn, proceduresRouter());
+  const records = new RecordService(sequelize, auth);
+  const signOff = new SignOffService(sequelize, auth);
+  records.useSignOff(signOff);
+  api.use('/records', signedIn, recordsRouter(records, config));
+  api.use('/records', signedIn, signOffRouter(signOff, records));
+  api.use('/sign-off', signedIn, signOffQueueRouter(signOff));
   api.use(apiNotFound);
   app.use('/api', api);
 

@@ -21,6 +21,22 @@ const configSchema = z.object({
   PUBLIC_URL: z.url().optional(),
   /** Mark the refresh cookie Secure; defaults to on in production. Off only for plain-http serving on loopback. */
   COOKIE_SECURE: z.enum(['true', 'false']).optional(),
+  /** The S3-compatible object store for photos (the local stand-in, or a real one: only these settings change). */
+  S3_ENDPOINT: z.url({ error: 'S3_ENDPOINT must be an http(s):// address' }).optional(),
+  S3_BUCKET: z.string({ error: 'S3_BUCKET must name the bucket that holds photos' }).min(3, 'S3_BUCKET must name the bucket that holds photos'),
+  S3_REGION: z.string().min(1).default('us-east-1'),
+  /** Without these two the SDK's own credential chain is used (instance roles and the like). */
+  S3_ACCESS_KEY_ID: z.string().min(1).optional(),
+  S3_SECRET_ACCESS_KEY: z.string().min(1).optional(),
+  /** Bucket in the path (the stand-in and most self-hosted stores need it). */
+  S3_FORCE_PATH_STYLE: z.enum(['true', 'false']).default('true'),
+  /** Largest photo file accepted, in bytes (20 MB). */
+  PHOTO_MAX_BYTES: z.coerce.number().int().min(1024).max(200 * 1024 * 1024).default(20 * 1024 * 1024),
+  /** Largest photo accepted, in pixels (50 megapixels): a guard against decompression bombs. */
+  PHOTO_MAX_PIXELS: z.coerce.number().int().min(10_000).max(268_402_689).default(50_000_000),
+}).refine((c) => !c.S3_ACCESS_KEY_ID === !c.S3_SECRET_ACCESS_KEY, {
+  path: ['S3_SECRET_ACCESS_KEY'],
+  message: 'S3_ACCESS_KEY_ID and S3_SECRET_ACCESS_KEY go together: set both or neither',
 });
 
 export type Config = z.infer<typeof configSchema>;

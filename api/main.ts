@@ -6,6 +6,7 @@ import { createApp } from './app';
 import { loadConfig, type Config } from './config';
 import { createDatabase } from './db/database';
 import { migrate } from './db/migrate';
+import { loadProcedurePacks } from './modules/procedures/loader';
 import { createLogger } from './lib/logger';
 
 export interface RunningApi {
@@ -18,6 +19,7 @@ export async function startApi(config: Config = loadConfig()): Promise<RunningAp
   const logger = createLogger(config.LOG_LEVEL);
   const sequelize = createDatabase(config.DATABASE_URL, config.DATABASE_POOL_MAX);
   await migrate(sequelize);
+  await loadProcedurePacks(sequelize);
   const app = createApp({ config, sequelize, logger });
   const server: Server = await new Promise((resolve) => {
     const s = app.listen(config.PORT, config.HOST, () => resolve(s));

@@ -3,12 +3,14 @@ import { join } from 'node:path';
 import { DEMO_PASSWORD, DEMO_PEOPLE } from '../api/db/seed';
 import { ROLE_LABELS } from '../api/contracts/roles';
 import { runCommand } from './lib/run';
-import { localPgDir, localSecrets, prepareDatabase, ROOT, say, startStack } from './lib/stack';
+import { LOCAL_S3_DIR, localPgDir, localSecrets, prepareDatabase, ROOT, say, startStack } from './lib/stack';
 
 const secrets = localSecrets(join(ROOT, '.data'));
 const stack = await startStack({
   pgDir: localPgDir(),
   pgPort: Number(process.env['SETWRIGHT_DB_PORT'] ?? 54329),
+  s3Dir: LOCAL_S3_DIR,
+  s3Port: Number(process.env['SETWRIGHT_S3_PORT'] ?? 54380),
   apiPort: Number(process.env['PORT'] ?? 4300),
   secrets,
   nodeEnv: 'production',

@@ -45,11 +45,6 @@ export const stepEntryRequestSchema = z.object({
 });
 export type StepEntryRequest = z.infer<typeof stepEntryRequestSchema>;
 
-export const finishRecordSchema = z.object({
-  /** Confirms finishing with readings still out of limits, which marks the record failed. */
-  acceptFailed: z.boolean().default(false),
-});
-
 export const voidRecordSchema = z.object({
   reason: z.string().trim().min(3, 'Say why the record is voided.').max(1000),
 });

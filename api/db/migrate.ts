@@ -1,6 +1,10 @@
 import { Umzug, SequelizeStorage, type MigrationFn } from 'umzug';
 import type { QueryInterface, Sequelize } from 'sequelize';
 import * as m0001 from './migrations/0001-people-and-machines';
+import * as m0002 from './migrations/0002-photos';
+import * as m0003 from './migrations/0003-procedures-and-records';
+import * as m0004 from './migrations/0004-one-draft-per-procedure';
+import * as m0005 from './migrations/0005-signatures-and-audit';
 
 export interface Migration {
   up: MigrationFn<QueryInterface>;
@@ -8,7 +12,13 @@ export interface Migration {
 }
 
 /** Every migration, in order. Add new ones at the end; never edit one that has shipped. */
-const MIGRATIONS: [string, Migration][] = [['0001-people-and-machines', m0001]];
+const MIGRATIONS: [string, Migration][] = [
+  ['0001-people-and-machines', m0001],
+  ['0002-photos', m0002],
+  ['0003-procedures-and-records', m0003],
+  ['0004-one-draft-per-procedure', m0004],
+  ['0005-signatures-and-audit', m0005],
+];
 
 export function createMigrator(sequelize: Sequelize) {
   return new Umzug({

@@ -2,6 +2,10 @@ import type { Sequelize } from 'sequelize';
 import { RoleAssignment, User } from '../modules/people/model';
 import { RefreshToken } from '../modules/auth/model';
 import { Machine } from '../modules/machines/model';
+import { Photo } from '../modules/photos/model';
+import { ProcedureVersion } from '../modules/procedures/model';
+import { SetupRecord, StepEntry } from '../modules/records/model';
+import { AuditEvent, RecordAddendum, RecordReturn, Signature } from '../modules/signoff/model';
 
 /** Initialise every model on one Sequelize instance and wire the associations. */
 export function initModels(sequelize: Sequelize): void {
@@ -9,9 +13,23 @@ export function initModels(sequelize: Sequelize): void {
   RoleAssignment.initModel(sequelize);
   RefreshToken.initModel(sequelize);
   Machine.initModel(sequelize);
+  Photo.initModel(sequelize);
+  ProcedureVersion.initModel(sequelize);
+  SetupRecord.initModel(sequelize);
+  StepEntry.initModel(sequelize);
+  Signature.initModel(sequelize);
+  RecordReturn.initModel(sequelize);
+  RecordAddendum.initModel(sequelize);
+  AuditEvent.initModel(sequelize);
 
   User.hasMany(RoleAssignment, { as: 'roleAssignments', foreignKey: 'userId' });
   RoleAssignment.belongsTo(User, { foreignKey: 'userId' });
   User.hasMany(RefreshToken, { foreignKey: 'userId' });
   RefreshToken.belongsTo(User, { foreignKey: 'userId' });
+  SetupRecord.belongsTo(Machine, { as: 'machine', foreignKey: 'machineId' });
+  SetupRecord.belongsTo(ProcedureVersion, { as: 'procedureVersion', foreignKey: 'procedureVersionId' });
+  SetupRecord.belongsTo(User, { as: 'startedBy', foreignKey: 'startedById' });
+  SetupRecord.hasMany(StepEntry, { as: 'entries', foreignKey: 'recordId' });
+  StepEntry.belongsTo(User, { as: 'enteredBy', foreignKey: 'enteredById' });
+  StepEntry.belongsTo(User, { as: 'witnessedBy', foreignKey: 'witnessedById' });
 }

@@ -2,6 +2,7 @@ import { createHash, randomBytes } from 'node:crypto';
 import { existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { join, resolve } from 'node:path';
 import { postgresCanReach, startCluster, type Cluster } from './postgres';
+import { startObjectStoreFake } from './s3';
 
 export const ROOT = resolve(import.meta.dirname, '..', '..');
 
@@ -54,8 +55,21 @@ export interface Stack {
   stop(): void;
 }
 
+/** Where `npm start` keeps the object-store stand-in's files. */
+export const LOCAL_S3_DIR = join(ROOT, 'uploads-fake');
+
 /** Start the services Setwright needs and return the environment the API reads. */
-export async function startStack(o: { pgDir: string; pgPort: number; secrets: Secrets; apiPort: number; nodeEnv: string }): Promise<Stack> {
+export async function startStack(o: {
+  pgDir: string;
+  pgPort: number;
+  secrets: Secrets;
+  apiPort: number;
+  nodeEnv: string;
+  /** Folder of the object-store stand-in (default: the project's uploads-fake/). */
+  s3Dir?: string;
+  /** Its port on 127.0.0.1 (default: SETWRIGHT_S3_PORT or 54380). */
+  s3Port?: number;
+}): Promise<Stack> {
   const cluster = await startCluster({
     dataDir: o.pgDir,
     port: o.pgPort,
@@ -63,7 +77,19 @@ export async function startStack(o: { pgDir: string; pgPort: number; secrets: Se
     adminPassword: o.secrets.pgAdminPassword,
     log: say,
   });
+  let s3;
+  try {
+    s3 = await startObjectStoreFake({
+      directory: o.s3Dir ?? LOCAL_S3_DIR,
+      port: o.s3Port ?? Number(process.env['SETWRIGHT_S3_PORT'] ?? 54380),
+      log: say,
+    });
+  } catch (err) {
+    cluster.stop();
+    throw err;
+  }
   const env: Record<string, string> = {
+    ...s3.env,
     NODE_ENV: o.nodeEnv,
     DATABASE_URL: cluster.appUrl,
     DATABASE_ADMIN_URL: cluster.adminUrl,
@@ -76,6 +102,7 @@ export async function startStack(o: { pgDir: string; pgPort: number; secrets: Se
     cluster,
     env,
     stop() {
+      void s3.stop();
       cluster.stop();
     },
   };
@@ -95,6 +122,9 @@ export async function prepareDatabase(env: Record<string, string>): Promise<void
     say(applied.length ? `applied migrations: ${applied.join(', ')}` : 'database schema is up to date');
     await seedDemo(config.BCRYPT_COST);
     say('demo workshop data is in place');
+    const { loadProcedurePacks } = await import('../../api/modules/procedures/loader');
+    const loaded = await loadProcedurePacks(sequelize);
+    if (loaded.length) say(`loaded procedures: ${loaded.join(', ')}`);
   } finally {
     await sequelize.close();
   }

@@ -3,76 +3,15 @@ import { randomUUID } from 'node:crypto';
 import { before, describe, test } from 'node:test';
 import sharp from 'sharp';
 import request from 'supertest';
-import { procedureSchema, type Procedure } from '../../procedures/schema';
 import { DEMO_MACHINES } from '../../api/db/seed';
 import { Machine } from '../../api/modules/machines/model';
 import { Photo } from '../../api/modules/photos/model';
 import { loadProcedurePacks, procedureChecksum } from '../../api/modules/procedures/loader';
+import { approve, fixture } from '../support/procedures';
 import { ProcedureVersion } from '../../api/modules/procedures/model';
 import { SetupRecord, StepEntry } from '../../api/modules/records/model';
 import type { Person } from '../../api/modules/people/repository';
 import { db, expectProblem, makePerson, PASSWORD, signIn, testApp } from '../support/api';
-
-/** A small procedure of our own for these tests, exercising each kind of input and a powered step. */
-function fixture(key: string, version = 1, title = 'Test tension check'): Procedure {
-  return procedureSchema.parse({
-    key,
-    version,
-    title,
-    intendedUse: 'Checking the record rules in tests.',
-    scope: 'Test machines only.',
-    machineKind: 'horizontal_bandsaw',
-    hazards: ['Sharp blade'],
-    steps: [
-      { id: 'isolate', title: 'Isolate the saw', kind: 'isolation', instruction: 'Isolate it.', inputs: [{ id: 'lock', type: 'text', label: 'Lock number' }] },
-      {
-        id: 'tension',
-        title: 'Read the tension gauge',
-        kind: 'reading',
-        instruction: 'Read the gauge.',
-        inputs: [
-          {
-            id: 'reading',
-            type: 'number',
-            label: 'Gauge reading',
-            unit: 'kgf',
-            decimals: 0,
-            limits: { min: { $spec: 'tensionRangeKgf.min', unit: 'kgf' }, max: { $spec: 'tensionRangeKgf.max', unit: 'kgf' } },
-          },
-        ],
-        computed: [
-          {
-            id: 'stress',
-            label: 'Stress in one strand',
-            fn: 'bladeStress',
-            args: { force: { $input: 'reading' }, reads: { $spec: 'tensionReads' }, width: { $spec: 'bladeWidthMm', unit: 'mm' }, thickness: { $spec: 'bladeThicknessMm', unit: 'mm' } },
-            output: 'stress',
-            unit: 'MPa',
-            decimals: 1,
-          },
-        ],
-      },
-      { id: 'track', title: 'Track under power', kind: 'check', powered: true, instruction: 'Run it and watch.', inputs: [{ id: 'clear', type: 'yesno', label: 'Blade runs clear of the flange', expected: true }] },
-      { id: 'evidence', title: 'Photo of the gauge', kind: 'photo', instruction: 'Take a photo.', inputs: [{ id: 'shot', type: 'photo', label: 'Gauge photo', min: 1, max: 2 }] },
-    ],
-  });
-}
-
-async function approve(body: Procedure) {
-  const current = await ProcedureVersion.findOne({ where: { key: body.key, status: 'approved' } });
-  if (current) await current.update({ status: 'retired' });
-  return ProcedureVersion.create({
-    key: body.key,
-    version: body.version,
-    title: body.title,
-    machineKind: body.machineKind,
-    status: 'approved',
-    body,
-    checksum: procedureChecksum(body),
-    source: 'pack',
-    approvedAt: new Date(),
-  });
-}
 
 const app = testApp();
 let machineId: string;
@@ -311,7 +250,7 @@ describe('finishing a record', () => {
 
   test('when steps are missing, then finishing is refused and says which', async () => {
     const record = await startRecord();
-    const problem = expectProblem(await request(app).post(`/api/records/${record.id}/finish`).set(as('trainee')).send({}), 409);
+    const problem = expectProblem(await request(app).post(`/api/records/${record.id}/finish`).set(as('trainee')).send({ password: PASSWORD }), 409);
     assert.match(problem.detail, /Isolate the saw/);
     assert.equal((await SetupRecord.findByPk(record.id))!.status, 'underway');
   });
@@ -319,7 +258,7 @@ describe('finishing a record', () => {
   test('when every step is done and within limits, then the record is ready for sign-off and passed, and closed to changes', async () => {
     const record = await startRecord();
     await doAll(record.id, 800);
-    const res = await request(app).post(`/api/records/${record.id}/finish`).set(as('trainee')).send({}).expect(200);
+    const res = await request(app).post(`/api/records/${record.id}/finish`).set(as('trainee')).send({ password: PASSWORD }).expect(200);
     assert.equal(res.body.status, 'ready_for_signoff');
     assert.equal(res.body.result, 'passed');
     const stored = await SetupRecord.findByPk(record.id);
@@ -331,8 +270,8 @@ describe('finishing a record', () => {
   test('when a reading is left out of limits, then finishing needs confirmation and marks the record failed', async () => {
     const record = await startRecord();
     await doAll(record.id, 600);
-    expectProblem(await request(app).post(`/api/records/${record.id}/finish`).set(as('trainee')).send({}), 409);
-    const res = await request(app).post(`/api/records/${record.id}/finish`).set(as('trainee')).send({ acceptFailed: true }).expect(200);
+    expectProblem(await request(app).post(`/api/records/${record.id}/finish`).set(as('trainee')).send({ password: PASSWORD }), 409);
+    const res = await request(app).post(`/api/records/${record.id}/finish`).set(as('trainee')).send({ acceptFailed: true, password: PASSWORD }).expect(200);
     assert.equal(res.body.result, 'failed');
     assert.equal((await SetupRecord.findByPk(record.id))!.result, 'failed');
   });

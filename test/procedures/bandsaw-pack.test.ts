@@ -1,9 +1,9 @@
 import { describe, test } from 'node:test';
 import assert from 'node:assert/strict';
 import { evaluateStep } from '../../procedures/engine';
-import { isMathsFunctionName } from '../../procedures/maths';
-import { procedureSchema, type Bound, type Limits, type Procedure, type Step } from '../../procedures/schema';
-import { demoSpecs, inputsUsed, packFiles, packProcedures, specAt, walkTemplate } from './helpers';
+import { checkStepReferences } from '../../procedures/check-references';
+import { procedureSchema, type Limits, type Procedure, type Step } from '../../procedures/schema';
+import { demoSpecs, inputsUsed, packFiles, packProcedures, walkTemplate } from './helpers';
 
 const files = packFiles();
 const procedures = packProcedures();
@@ -11,11 +11,6 @@ const procedures = packProcedures();
 /** Every procedure × step, for the per-step rules. */
 const allSteps: { p: Procedure; s: Step }[] = procedures.flatMap((p) => p.steps.map((s) => ({ p, s })));
 const where = (p: Procedure, s: Step) => `${p.key} v${p.version} / ${s.id}`;
-
-function specBounds(limits: Limits | undefined): string[] {
-  if (!limits) return [];
-  return [limits.min, limits.max].filter((b): b is Exclude<Bound, number> => typeof b === 'object' && b !== null).map((b) => b.$spec);
-}
 
 function literalBounds(limits: Limits | undefined): boolean {
   return !!limits && (typeof limits.min === 'number' || typeof limits.max === 'number');
@@ -63,46 +58,12 @@ describe('bandsaw pack: files and keys', () => {
 });
 
 describe('bandsaw pack: references resolve', () => {
+  // The same checks the server runs when a draft is saved, here also against the demo saws' specifications.
+  const specs = demoSpecs.map(({ tag, spec }) => ({ name: tag, spec }));
   for (const { p, s } of allSteps) {
     test(`when ${where(p, s)} is checked, then every function, $input, $computed and $spec it names exists`, () => {
-      const inputIds = new Set(s.inputs.map((i) => i.id));
-      const earlier = new Set<string>();
-      for (const c of s.computed) {
-        assert.ok(isMathsFunctionName(c.fn), `${c.id}: "${c.fn}" is not a registered maths function`);
-        walkTemplate(c.args, (node) => {
-          if ('$input' in node) assert.ok(inputIds.has(String(node['$input'])), `${c.id}: no input "${String(node['$input'])}"`);
-          if ('$computed' in node) assert.ok(earlier.has(String(node['$computed'])), `${c.id}: "${String(node['$computed'])}" is not an earlier computed field`);
-          if ('$spec' in node) {
-            for (const { tag, spec } of demoSpecs) {
-              assert.notEqual(specAt(spec, String(node['$spec'])), undefined, `${c.id}: ${tag} has no spec "${String(node['$spec'])}"`);
-            }
-          }
-          if ('$each' in node) {
-            for (const { tag, spec } of demoSpecs) {
-              const list = specAt(spec, String(node['$each']));
-              assert.ok(Array.isArray(list) && list.length > 0, `${c.id}: ${tag}'s "${String(node['$each'])}" is not a list`);
-              const fields: string[] = [];
-              walkTemplate(node['as'], (n) => {
-                if ('$item' in n) fields.push(String(n['$item']));
-              });
-              for (const item of list as Record<string, unknown>[]) {
-                for (const field of fields) assert.notEqual(item[field], undefined, `${c.id}: an item of ${tag}'s "${String(node['$each'])}" has no "${field}"`);
-              }
-            }
-          }
-        });
-        for (const id of c.when ?? []) assert.ok(inputIds.has(id), `${c.id}: "when" names no input "${id}"`);
-        for (const path of specBounds(c.limits)) {
-          for (const { tag, spec } of demoSpecs) assert.equal(typeof specAt(spec, path), 'number', `${c.id}: ${tag} has no number at "${path}"`);
-        }
-        earlier.add(c.id);
-      }
-      for (const input of s.inputs) {
-        if (input.type !== 'number') continue;
-        for (const path of specBounds(input.limits)) {
-          for (const { tag, spec } of demoSpecs) assert.equal(typeof specAt(spec, path), 'number', `${input.id}: ${tag} has no number at "${path}"`);
-        }
-      }
+      const problems = checkStepReferences(s, [s.id], specs).map((x) => `${x.path.join('/')}: ${x.message}`);
+      assert.deepEqual(problems, []);
     });
   }
 });

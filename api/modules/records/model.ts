@@ -23,6 +23,10 @@ export class SetupRecord extends Model<InferAttributes<SetupRecord>, InferCreati
   declare startedById: string;
   declare finishedAt: CreationOptional<Date | null>;
   declare voidReason: CreationOptional<string | null>;
+  declare recordHash: CreationOptional<string | null>;
+  declare previousHash: CreationOptional<string | null>;
+  declare signedAt: CreationOptional<Date | null>;
+  declare pdfKey: CreationOptional<string | null>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
   declare machine?: NonAttribute<Machine>;
@@ -41,6 +45,10 @@ export class SetupRecord extends Model<InferAttributes<SetupRecord>, InferCreati
         startedById: { type: DataTypes.UUID, allowNull: false },
         finishedAt: { type: DataTypes.DATE, allowNull: true },
         voidReason: { type: DataTypes.TEXT, allowNull: true },
+        recordHash: { type: DataTypes.STRING(64), allowNull: true },
+        previousHash: { type: DataTypes.STRING(64), allowNull: true },
+        signedAt: { type: DataTypes.DATE, allowNull: true },
+        pdfKey: { type: DataTypes.STRING(200), allowNull: true },
         createdAt: DataTypes.DATE,
         updatedAt: DataTypes.DATE,
       },

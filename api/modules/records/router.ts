@@ -1,8 +1,8 @@
 import { Router } from 'express';
 import { rateLimit } from 'express-rate-limit';
 import { z } from 'zod';
+import { finishWithSignatureSchema } from '../../contracts/signoff';
 import {
-  finishRecordSchema,
   RECORD_STATUSES,
   startRecordSchema,
   stepEntryRequestSchema,
@@ -60,9 +60,10 @@ export function recordsRouter(records: RecordService, config: Config): Router {
     res.status(created ? 201 : 200).json(entry);
   });
 
-  router.post('/:id/finish', allow(...RUNNERS), validate({ params: idParams, body: finishRecordSchema }), async (req, res) => {
+  router.post('/:id/finish', allow(...RUNNERS), validate({ params: idParams, body: finishWithSignatureSchema }), async (req, res) => {
     const { id } = validated<z.infer<typeof idParams>>(res, 'params');
-    res.json(await records.finish(req.user!, id, validated<z.infer<typeof finishRecordSchema>>(res, 'body').acceptFailed));
+    const body = validated<z.infer<typeof finishWithSignatureSchema>>(res, 'body');
+    res.json(await records.finish(req.user!, id, body.acceptFailed, body.password));
   });
 
   router.post('/:id/void', allow('trainee', 'competent_person', 'workshop_admin'), validate({ params: idParams, body: voidRecordSchema }), async (req, res) => {

@@ -9,6 +9,9 @@ import { User } from '../people/model';
 import type { Person } from '../people/repository';
 import { Photo } from '../photos/model';
 import { ProcedureVersion } from '../procedures/model';
+import { audit } from '../../lib/audit';
+import { Signature } from '../signoff/model';
+import type { SignOffService } from '../signoff/service';
 import { SetupRecord, StepEntry } from './model';
 import { checkValues } from './values';
 import { entryView, recordDetail, recordSummary } from './views';
@@ -30,10 +33,17 @@ const entryPeople = {
 
 /** Set-up records: start one on a machine, save each step as it is done, finish it for sign-off. */
 export class RecordService {
+  private signOff?: SignOffService;
+
   constructor(
     private readonly sequelize: Sequelize,
     private readonly auth: AuthService,
   ) {}
+
+  /** Finishing signs the record as performed, through the sign-off service. */
+  useSignOff(signOff: SignOffService) {
+    this.signOff = signOff;
+  }
 
   /** Start a record pinned to the procedure's current approved version; a repeated client id returns the same record. */
   async start(person: Person, req: StartRecordRequest): Promise<{ record: RecordDetail; created: boolean }> {
@@ -56,7 +66,13 @@ export class RecordService {
     }
     const id = req.id ?? randomUUID();
     try {
-      await SetupRecord.create({ id, machineId: machine.id, procedureVersionId: version.id, machineSpec: machine.spec, status: 'underway', startedById: person.id });
+      await this.sequelize.transaction(async (transaction) => {
+        await SetupRecord.create(
+          { id, machineId: machine.id, procedureVersionId: version.id, machineSpec: machine.spec, status: 'underway', startedById: person.id },
+          { transaction },
+        );
+        await audit('record.started', person.id, id, { machine: machine.assetTag, procedure: `${version.key} v${version.version}` }, transaction);
+      });
     } catch (err) {
       if (err instanceof UniqueConstraintError && req.id) return this.start(person, req);
       throw err;
@@ -128,6 +144,14 @@ export class RecordService {
           { transaction },
         );
         if (record.status === 'returned') await SetupRecord.update({ status: 'underway' }, { where: { id: record.id }, transaction });
+        await audit('step.saved', person.id, record.id, { step: step.id, attempt: created.attempt, outcome }, transaction);
+        if (witness && witness.id !== person.id) {
+          await Signature.create(
+            { recordId: record.id, signerId: witness.id, meaning: 'witnessed', printedName: witness.displayName, signedAt: created.witnessedAt!, stepId: step.id, entryId: created.id },
+            { transaction },
+          );
+          await audit('step.witnessed', witness.id, record.id, { step: step.id, attempt: created.attempt }, transaction);
+        }
         return created;
       });
       return { entry: entryView((await StepEntry.findByPk(entry.id, entryPeople))!), created: true };
@@ -140,8 +164,11 @@ export class RecordService {
     }
   }
 
-  /** Finish: every step has a current entry; readings left out of limits mark the record failed, when confirmed. */
-  async finish(person: Person, recordId: string, acceptFailed: boolean): Promise<RecordDetail> {
+  /**
+   * Finish: every step has a current entry; readings left out of limits mark the record failed, when
+   * confirmed. The performer signs it as performed with their password.
+   */
+  async finish(person: Person, recordId: string, acceptFailed: boolean, password: string): Promise<RecordDetail> {
     const record = await this.writable(person, recordId);
     const entries = await StepEntry.findAll({ where: { recordId }, order: [['attempt', 'ASC']] });
     const latest = new Map(entries.map((e) => [e.stepId, e]));
@@ -158,7 +185,16 @@ export class RecordService {
         steps: failed.map((s) => s.id),
       });
     }
-    await record.update({ status: 'ready_for_signoff', result: failed.length ? 'failed' : 'passed', finishedAt: new Date() });
+    await this.signOff!.confirmPassword(person, password);
+    await this.sequelize.transaction(async (transaction) => {
+      const finishedAt = new Date();
+      await record.update({ status: 'ready_for_signoff', result: failed.length ? 'failed' : 'passed', finishedAt }, { transaction });
+      await Signature.create(
+        { recordId, signerId: person.id, meaning: 'performed', printedName: person.displayName, signedAt: finishedAt, stepId: null, entryId: null },
+        { transaction },
+      );
+      await audit('record.finished', person.id, recordId, { result: failed.length ? 'failed' : 'passed' }, transaction);
+    });
     return this.get(person, recordId);
   }
 
@@ -168,6 +204,7 @@ export class RecordService {
     if (!mayVoid) throw AppError.forbidden('Only the person who started a record, a competent person or a workshop admin may void it.');
     if (record.status !== 'underway' && record.status !== 'returned') throw AppError.conflict('Only a record that is underway or returned can be voided.');
     await record.update({ status: 'voided', voidReason: reason });
+    await audit('record.voided', person.id, recordId, { reason });
     return this.get(person, recordId);
   }
 

@@ -1,0 +1,27 @@
+import type { Transaction } from 'sequelize';
+import { AuditEvent } from '../modules/signoff/model';
+
+/** The things the audit trail records. */
+export type AuditAction =
+  | 'record.started'
+  | 'step.saved'
+  | 'step.witnessed'
+  | 'record.finished'
+  | 'record.voided'
+  | 'record.returned'
+  | 'record.signed_off'
+  | 'record.addendum'
+  | 'record.downloaded'
+  | 'records.exported'
+  | 'record.checked';
+
+/** Append one event to the audit trail (in the caller's transaction when there is one). */
+export async function audit(
+  action: AuditAction,
+  actorId: string | null,
+  recordId: string | null,
+  detail: Record<string, unknown> = {},
+  transaction?: Transaction,
+): Promise<void> {
+  await AuditEvent.create({ action, actorId, recordId, detail }, { transaction });
+}
