@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { DEMO_WORKSHOP } from './db/seed';
 
 /** Everything the API reads from its environment, parsed once at boot. */
 const configSchema = z.object({
@@ -34,6 +35,20 @@ const configSchema = z.object({
   PHOTO_MAX_BYTES: z.coerce.number().int().min(1024).max(200 * 1024 * 1024).default(20 * 1024 * 1024),
   /** Largest photo accepted, in pixels (50 megapixels): a guard against decompression bombs. */
   PHOTO_MAX_PIXELS: z.coerce.number().int().min(10_000).max(268_402_689).default(50_000_000),
+  /** The workshop's name, printed at the head of every record PDF. */
+  WORKSHOP_NAME: z.string().trim().min(1).max(120).default(DEMO_WORKSHOP),
+  /** The IANA time zone in which PDFs and evidence packs print dates and times (always with the offset). */
+  WORKSHOP_TIME_ZONE: z
+    .string()
+    .default('Europe/London')
+    .refine((tz) => {
+      try {
+        new Intl.DateTimeFormat('en-GB', { timeZone: tz });
+        return true;
+      } catch {
+        return false;
+      }
+    }, 'WORKSHOP_TIME_ZONE must be an IANA time zone such as Europe/London'),
 }).refine((c) => !c.S3_ACCESS_KEY_ID === !c.S3_SECRET_ACCESS_KEY, {
   path: ['S3_SECRET_ACCESS_KEY'],
   message: 'S3_ACCESS_KEY_ID and S3_SECRET_ACCESS_KEY go together: set both or neither',

@@ -1,5 +1,5 @@
 import type { Routes } from '@angular/router';
-import { signedInGuard, signedOutGuard } from './core/guards';
+import { roleGuard, signedInGuard, signedOutGuard } from './core/guards';
 
 export const routes: Routes = [
   {
@@ -26,9 +26,32 @@ export const routes: Routes = [
         loadComponent: () => import('./features/workshop-maths/workshop-maths').then((m) => m.WorkshopMaths),
       },
       {
+        path: 'procedures',
+        canMatch: [roleGuard('workshop_admin', 'competent_person', 'auditor')],
+        title: 'Procedures · Setwright',
+        loadComponent: () => import('./features/procedures/procedure-library').then((m) => m.ProcedureLibrary),
+      },
+      {
+        path: 'procedures/:key/versions/:version',
+        canMatch: [roleGuard('workshop_admin', 'competent_person', 'auditor')],
+        title: 'Procedure version · Setwright',
+        loadComponent: () => import('./features/procedures/version-page').then((m) => m.VersionPage),
+      },
+      {
         path: 'machines/:id',
         title: 'Machine · Setwright',
         loadComponent: () => import('./features/machines/machine-page').then((m) => m.MachinePage),
+      },
+      {
+        path: 'to-sign',
+        title: 'To sign · Setwright',
+        canMatch: [roleGuard('competent_person')],
+        loadComponent: () => import('./features/sign-off/sign-off-queue').then((m) => m.SignOffQueue),
+      },
+      {
+        path: 'to-sign/:id',
+        title: 'Review · Setwright',
+        loadComponent: () => import('./features/sign-off/sign-off-review').then((m) => m.SignOffReview),
       },
       {
         path: 'records/:id',

@@ -29,8 +29,9 @@ async function yes(step: Locator, label: string) {
   await step.locator(`mat-button-toggle-group[aria-label="${label}"]`).getByText('Yes', { exact: true }).click();
 }
 
-describe('a trainee runs the blade change at the saw', () => {
+describe('a trainee runs the blade change at the saw, and a competent person signs it off', () => {
   let base: string;
+  let finishedRecordId: string | undefined;
   before(async () => {
     db();
     base = await startServer();
@@ -100,8 +101,11 @@ describe('a trainee runs the blade change at the saw', () => {
     await dialog.getByRole('button', { name: 'Witness and save' }).click();
     assert.equal((await witnessed).status(), 201);
 
-    const finish = page.getByRole('button', { name: 'Finish and send for sign-off' });
-    await finish.click();
+    await page.getByRole('button', { name: 'Finish and send for sign-off' }).click();
+    const sign = page.getByRole('dialog');
+    await sign.getByText('Performed by').waitFor();
+    await sign.getByLabel('Your password').fill(DEMO_PASSWORD);
+    await sign.getByRole('button', { name: 'Sign' }).click();
     await page.getByText('This record is ready for sign-off').waitFor();
     await screenshot(page, 'runner-ready-for-sign-off-1024x768');
 
@@ -117,6 +121,33 @@ describe('a trainee runs the blade change at the saw', () => {
     const photoIds = inspected.values['wear-photo'] as string[];
     assert.equal(photoIds.length, 1);
     assert.equal((await Photo.findByPk(photoIds[0]))!.attachedRecordId, recordId);
+    await context.close();
+    finishedRecordId = recordId;
+  });
+
+  test('when the competent person reviews the finished record and signs it off, then it is locked with its hash and checks intact', async () => {
+    assert.ok(finishedRecordId, 'the trainee’s record from the test before');
+    const browser = await launchBrowser();
+    const context = await browser.newContext({ viewport: { width: 1024, height: 768 } });
+    const page = await context.newPage();
+    await signInThroughPage(page, base, witness.email, DEMO_PASSWORD);
+    await page.getByRole('link', { name: /record.* to sign/ }).click();
+    await page.waitForURL(/\/to-sign$/);
+    await page.locator(`a[href="/to-sign/${finishedRecordId}"]`).click();
+    await page.getByRole('heading', { name: /Removing and fitting a blade/ }).waitFor();
+    await page.getByText('Witnessed by Dougal Pryce').first().waitFor();
+    await screenshot(page, 'review-1024x768');
+    await page.getByRole('button', { name: 'Sign off' }).click();
+    const sign = page.getByRole('dialog');
+    await sign.getByText('Approved by').waitFor();
+    await sign.getByLabel('Your password').fill(DEMO_PASSWORD);
+    await sign.getByRole('button', { name: 'Sign' }).click();
+    await page.getByText('Record hash').waitFor();
+    await screenshot(page, 'signed-off-1024x768');
+    const record = await SetupRecord.findByPk(finishedRecordId);
+    assert.equal(record!.status, 'signed_off');
+    assert.match(record!.recordHash ?? '', /^[0-9a-f]{64}$/);
+    assert.ok(await page.getByText(record!.recordHash!).isVisible());
     await context.close();
   });
 });

@@ -14,6 +14,14 @@ const EVERYONE: readonly Role[] = ['trainee', 'competent_person', 'auditor', 'wo
 /** The places that exist today; the shell and Today list the ones the signed-in person may open. */
 export const PLACES: readonly Place[] = [
   { path: '/today', label: 'Today', icon: 'home', roles: EVERYONE, summary: 'Your work: what to do next.' },
+  { path: '/to-sign', label: 'To sign', icon: 'approval', roles: ['competent_person'], summary: 'Finished records waiting for your review and signature.' },
   { path: '/machines', label: 'Machines', icon: 'precision_manufacturing', roles: EVERYONE, summary: 'The machine register and each saw’s figures.' },
   { path: '/workshop-maths', label: 'Workshop maths', icon: 'calculate', roles: EVERYONE, summary: 'Blade speed, pitch, tension, belts and squareness, worked out.' },
+  {
+    path: '/procedures',
+    label: 'Procedures',
+    icon: 'menu_book',
+    roles: ['workshop_admin', 'competent_person', 'auditor'],
+    summary: 'The procedure library: every version, drafts and approval.',
+  },
 ];

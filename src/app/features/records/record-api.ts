@@ -35,7 +35,8 @@ export class RecordApi {
     return firstValueFrom(this.http.post<StepEntryView>(`/api/records/${recordId}/entries`, body, { context: ownErrors() }));
   }
 
-  finish(recordId: string, acceptFailed: boolean): Promise<RecordDetail> {
-    return firstValueFrom(this.http.post<RecordDetail>(`/api/records/${recordId}/finish`, { acceptFailed }, { context: ownErrors() }));
+  /** Finish and sign as performed (the password is the signature). */
+  finish(recordId: string, acceptFailed: boolean, password: string): Promise<RecordDetail> {
+    return firstValueFrom(this.http.post<RecordDetail>(`/api/records/${recordId}/finish`, { acceptFailed, password }, { context: ownErrors() }));
   }
 }

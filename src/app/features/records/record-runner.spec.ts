@@ -1,5 +1,6 @@
 import { provideHttpClient, withInterceptors } from '@angular/common/http';
-import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
+import { HttpTestingController, provideHttpClientTesting, type TestRequest } from '@angular/common/http/testing';
+import { MatInputHarness } from '@angular/material/input/testing';
 import { provideZonelessChangeDetection } from '@angular/core';
 import { TestBed } from '@angular/core/testing';
 import { TestbedHarnessEnvironment } from '@angular/cdk/testing/testbed';
@@ -111,10 +112,18 @@ describe('RecordRunner', () => {
     await stepper.selectStep({ label: /Finish/ });
     const finish = await loader.getHarness(MatButtonHarness.with({ text: 'Finish and send for sign-off' }));
     expect(await finish.isDisabled()).toBeFalse();
-    const clicking = finish.click();
-    await new Promise((r) => setTimeout(r));
-    const req = http.expectOne('/api/records/r1/finish');
-    expect(req.request.body).toEqual({ acceptFailed: false });
+    await finish.click();
+    const root = TestbedHarnessEnvironment.documentRootLoader(fixture);
+    expect(document.querySelector('sw-sign-dialog')!.textContent).toContain('Performed by');
+    await (await root.getHarness(MatInputHarness.with({ selector: '[formControlName=password]' }))).setValue('secret');
+    const clicking = (await root.getHarness(MatButtonHarness.with({ text: 'Sign' }))).click();
+    let found: TestRequest[] = [];
+    for (let i = 0; i < 40 && !found.length; i++) {
+      await new Promise((r) => setTimeout(r, 25));
+      found = http.match('/api/records/r1/finish');
+    }
+    const req = found[0]!;
+    expect(req.request.body).toEqual({ acceptFailed: false, password: 'secret' });
     req.flush({ ...record([isolated, tracked], 'ready_for_signoff'), result: 'passed' });
     await clicking;
     await new Promise((r) => setTimeout(r, 50));

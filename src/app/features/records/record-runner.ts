@@ -7,7 +7,10 @@ import { MatIconModule } from '@angular/material/icon';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { MatStepper, MatStepperModule } from '@angular/material/stepper';
 import { RouterLink } from '@angular/router';
-import { map } from 'rxjs';
+import { MatDialog } from '@angular/material/dialog';
+import { firstValueFrom, map, of } from 'rxjs';
+import { SignOffApi } from '../sign-off/sign-off-api';
+import { SignDialog, type SignDialogData } from '../../shared/ui/sign-dialog/sign-dialog';
 import { RECORD_STATUS_LABELS, type RecordDetail, type StepEntryView } from '@setwright/contracts/records';
 import { toProblem } from '../../core/problem';
 import { Session } from '../../core/session';
@@ -32,7 +35,15 @@ export class RecordRunner {
   readonly id = input.required<string>();
 
   private readonly stepper = viewChild(MatStepper);
+  private readonly dialog = inject(MatDialog);
+  private readonly signOffApi = inject(SignOffApi);
   protected readonly record = rxResource({ params: () => this.id(), stream: ({ params }) => this.api.get(params) });
+  /** Why a returned record came back, from the sign-off history. */
+  protected readonly history = rxResource({
+    params: () => (this.record.value()?.status === 'returned' ? this.id() : undefined),
+    stream: ({ params }) => (params ? this.signOffApi.detail(params) : of(null)),
+  });
+  protected readonly returnedBecause = computed(() => this.history.value()?.returns.at(-1) ?? null);
   protected readonly finishing = signal(false);
   protected readonly finishProblem = signal<string | null>(null);
   protected readonly narrow = toSignal(inject(BreakpointObserver).observe('(max-width: 700px)').pipe(map((s) => s.matches)), { initialValue: false });
@@ -70,10 +81,20 @@ export class RecordRunner {
   protected async finish(acceptFailed: boolean) {
     const r = this.record.value();
     if (!r) return;
+    const data: SignDialogData = {
+      action: acceptFailed ? 'Finish as failed and sign' : 'Finish and sign',
+      meaning: 'Performed by',
+      printedName: this.session.user()?.displayName ?? '',
+      statement: acceptFailed
+        ? 'You confirm you did every step as recorded, and that readings are left out of limits, so the record fails.'
+        : 'You confirm you did every step of this procedure as recorded here.',
+    };
+    const password = await firstValueFrom(this.dialog.open(SignDialog, { data, width: '520px', maxWidth: '95vw' }).afterClosed());
+    if (!password) return;
     this.finishing.set(true);
     this.finishProblem.set(null);
     try {
-      this.record.set(await this.api.finish(r.id, acceptFailed));
+      this.record.set(await this.api.finish(r.id, acceptFailed, password));
     } catch (err) {
       const p = toProblem(err);
       this.finishProblem.set(p.detail ?? p.title);

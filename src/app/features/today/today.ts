@@ -3,6 +3,7 @@ import { rxResource } from '@angular/core/rxjs-interop';
 import { RECORD_STATUS_LABELS } from '@setwright/contracts/records';
 import { of } from 'rxjs';
 import { RecordApi } from '../records/record-api';
+import { SignOffApi } from '../sign-off/sign-off-api';
 import { MatButtonModule } from '@angular/material/button';
 import { MatCardModule } from '@angular/material/card';
 import { MatIconModule } from '@angular/material/icon';
@@ -53,6 +54,7 @@ export class Today {
     this.session.roles().map((role) => ({ role, label: ROLE_LABELS[role], duties: DUTIES[role] })),
   );
   private readonly api = inject(RecordApi);
+  private readonly signOffApi = inject(SignOffApi);
   protected readonly runs = computed(() => this.session.hasAnyRole(['trainee', 'competent_person']));
   /** The person's own records that are still open: underway, or returned to them. */
   protected readonly open = rxResource({
@@ -61,5 +63,10 @@ export class Today {
   });
   protected readonly openRecords = computed(() => (this.open.value() ?? []).filter((r) => r.status === 'underway' || r.status === 'returned'));
   protected readonly statusLabels = RECORD_STATUS_LABELS;
+  protected readonly signs = computed(() => this.session.roles().includes('competent_person'));
+  protected readonly waiting = rxResource({
+    params: () => this.signs(),
+    stream: ({ params }) => (params ? this.signOffApi.queue() : of([])),
+  });
   protected readonly places = computed(() => PLACES.filter((p) => p.path !== '/today' && this.session.hasAnyRole(p.roles)));
 }
