@@ -4,7 +4,7 @@ import { before, describe, test } from 'node:test';
 import request from 'supertest';
 import { DEMO_MACHINES } from '../../api/db/seed';
 import { Machine } from '../../api/modules/machines/model';
-import { procedureChecksum } from '../../api/modules/procedures/loader';
+import { loadProcedurePacks, procedureChecksum } from '../../api/modules/procedures/loader';
 import { ProcedureVersion } from '../../api/modules/procedures/model';
 import { SetupRecord } from '../../api/modules/records/model';
 import type { Person } from '../../api/modules/people/repository';
@@ -383,6 +383,26 @@ describe('approving a draft', () => {
     assert.equal(again!.status, 'approved');
     assert.equal(again!.body.title, 'Test tension check');
     assert.equal(again!.checksum, row.checksum);
+  });
+
+  test('when a newer version was approved after the draft was started, then the older draft cannot replace it', async () => {
+    const { key } = await withDraft();
+    await ProcedureVersion.update({ status: 'retired' }, { where: { key, version: 1 } });
+    await stored(fixture(key, 3));
+    const problem = expectProblem(await request(app).post(`/api/procedures/${key}/versions/2/approve`).set(as('competent')), 409);
+    assert.match(problem.detail, /Version 3 was approved after this draft was started/);
+    const rows = await ProcedureVersion.findAll({ where: { key }, order: [['version', 'ASC']] });
+    assert.deepEqual(rows.map((r) => [r.version, r.status]), [[1, 'retired'], [2, 'draft'], [3, 'approved']]);
+  });
+
+  test('when a pack file takes a version number already used in the app, then loading stops and names the next free number', async () => {
+    const { key } = await withDraft();
+    const file = fixture(key, 2);
+    await assert.rejects(
+      loadProcedurePacks(db(), [{ file: `test/${key}/v2.json`, body: file, checksum: procedureChecksum(file) }]),
+      /already used by a version written in the app\. Give the file a version number after the app's versions \(v3\.json\)/,
+    );
+    assert.equal((await ProcedureVersion.findOne({ where: { key, version: 2 } }))!.source, 'editor');
   });
 
   test('when a second draft is opened after an approval, then it is numbered after the approved one', async () => {

@@ -59,6 +59,13 @@ export async function loadProcedurePacks(sequelize: Sequelize, files = readPackF
   for (const f of files.sort((a, b) => a.body.key.localeCompare(b.body.key) || a.body.version - b.body.version)) {
     const existing = await ProcedureVersion.findOne({ where: { key: f.body.key, version: f.body.version } });
     if (existing) {
+      if (existing.source === 'editor') {
+        const newest = (await ProcedureVersion.max('version', { where: { key: f.body.key } })) as number;
+        throw new Error(
+          `The procedure file ${f.file} is version ${f.body.version} of "${f.body.key}", but that version number was already used by a version ` +
+            `written in the app. Give the file a version number after the app's versions (v${newest + 1}.json).`,
+        );
+      }
       if (existing.checksum !== f.checksum) {
         throw new Error(
           `The procedure file ${f.file} has changed since version ${f.body.version} of "${f.body.key}" was loaded. ` +

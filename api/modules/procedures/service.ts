@@ -155,6 +155,9 @@ export class ProcedureService {
         throw new AppError(409, 'draft-has-mistakes', 'The draft has mistakes in it', 'The draft no longer passes the procedure checks. Correct it and save it before approving.', problems);
       }
       const current = await ProcedureVersion.findOne({ where: { key, status: 'approved' }, transaction, lock: transaction.LOCK.UPDATE });
+      if (current && current.version > draft.version) {
+        throw new AppError(409, 'newer-version-approved', 'A newer version is approved', `Version ${current.version} was approved after this draft was started. Delete this draft and start a new one from version ${current.version}.`);
+      }
       if (current) await current.update({ status: 'retired' }, { transaction });
       await draft.update({ status: 'approved', approvedById: person.id, approvedAt: new Date() }, { transaction });
       return draft;
