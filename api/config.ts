@@ -20,6 +20,13 @@ const configSchema = z.object({
   LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).default('info'),
   STATIC_DIR: z.string().optional(),
   PUBLIC_URL: z.url().optional(),
+  /** Procedures a tagged-out machine may still start (comma-separated keys), besides the one that failed and any its schedules allow. */
+  TAG_OUT_PROCEDURES: z
+    .string()
+    .default('isolation-lockout')
+    .transform((s) => s.split(',').map((k) => k.trim()).filter(Boolean)),
+  /** Scheduled checks falling due within this many days show as "Due soon". */
+  SCHEDULE_SOON_DAYS: z.coerce.number().int().min(0).max(90).default(7),
   /** Mark the refresh cookie Secure; defaults to on in production. Off only for plain-http serving on loopback. */
   COOKIE_SECURE: z.enum(['true', 'false']).optional(),
   /** The S3-compatible object store for photos (the local stand-in, or a real one: only these settings change). */
@@ -49,9 +56,35 @@ const configSchema = z.object({
         return false;
       }
     }, 'WORKSHOP_TIME_ZONE must be an IANA time zone such as Europe/London'),
+  /** The SMTP relay that e-mail goes to (the local stand-in in development and tests; a real relay in production). */
+  SMTP_HOST: z.string().min(1).default('127.0.0.1'),
+  SMTP_PORT: z.coerce.number().int().min(1).max(65535).default(54325),
+  /** TLS from the first byte (port 465 relays). */
+  SMTP_SECURE: z.enum(['true', 'false']).default('false'),
+  /** Never upgrade with STARTTLS: only for the local stand-in on 127.0.0.1. */
+  SMTP_IGNORE_TLS: z.enum(['true', 'false']).default('false'),
+  SMTP_USER: z.string().min(1).optional(),
+  SMTP_PASSWORD: z.string().min(1).optional(),
+  MAIL_FROM: z.string().trim().min(3).max(200).default('Setwright <no-reply@setwright.invalid>'),
+  /** The job queue that e-mail waits in (tests use one of their own). */
+  MAIL_QUEUE: z.string().regex(/^[A-Za-z0-9_.-]{1,60}$/, 'MAIL_QUEUE is letters, digits, dots, dashes and underscores').default('mail'),
+  /** How often the mail worker looks for queued e-mail, in seconds (0.5 at the least). */
+  MAIL_POLL_SECONDS: z.coerce.number().min(0.5).max(300).default(5),
+  /** Retries of an e-mail the relay refuses or cannot take, with doubling waits starting at MAIL_RETRY_DELAY_SECONDS. */
+  MAIL_RETRY_LIMIT: z.coerce.number().int().min(0).max(30).default(12),
+  MAIL_RETRY_DELAY_SECONDS: z.coerce.number().int().min(1).max(3600).default(30),
+  /** When the daily "due this week" e-mail goes out (cron, in WORKSHOP_TIME_ZONE). */
+  MAIL_DUE_CRON: z.string().min(9).default('0 6 * * *'),
+  /** The folder where the local SMTP stand-in keeps what it receives; admins can read it in development. */
+  MAIL_STAND_IN_DIR: z.string().min(1).optional(),
+  /** How long an invitation link works. */
+  INVITATION_HOURS: z.coerce.number().int().min(1).max(24 * 14).default(72),
 }).refine((c) => !c.S3_ACCESS_KEY_ID === !c.S3_SECRET_ACCESS_KEY, {
   path: ['S3_SECRET_ACCESS_KEY'],
   message: 'S3_ACCESS_KEY_ID and S3_SECRET_ACCESS_KEY go together: set both or neither',
+}).refine((c) => !c.SMTP_USER === !c.SMTP_PASSWORD, {
+  path: ['SMTP_PASSWORD'],
+  message: 'SMTP_USER and SMTP_PASSWORD go together: set both or neither',
 });
 
 export type Config = z.infer<typeof configSchema>;

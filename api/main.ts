@@ -8,6 +8,7 @@ import { createDatabase } from './db/database';
 import { migrate } from './db/migrate';
 import { loadProcedurePacks } from './modules/procedures/loader';
 import { createLogger } from './lib/logger';
+import { Outbox } from './modules/mail/outbox';
 
 export interface RunningApi {
   url: string;
@@ -20,7 +21,10 @@ export async function startApi(config: Config = loadConfig()): Promise<RunningAp
   const sequelize = createDatabase(config.DATABASE_URL, config.DATABASE_POOL_MAX);
   await migrate(sequelize);
   await loadProcedurePacks(sequelize);
-  const app = createApp({ config, sequelize, logger });
+  // This instance delivers e-mail from the outbox too (any number of instances may: each message goes once).
+  const outbox = new Outbox(sequelize, config, logger);
+  const app = createApp({ config, sequelize, logger, outbox });
+  await outbox.start();
   const server: Server = await new Promise((resolve) => {
     const s = app.listen(config.PORT, config.HOST, () => resolve(s));
   });
@@ -34,6 +38,7 @@ export async function startApi(config: Config = loadConfig()): Promise<RunningAp
       server.closeIdleConnections();
       setTimeout(() => server.closeAllConnections(), 3000).unref();
       await closed;
+      await outbox.stop();
       await sequelize.close();
     },
   };

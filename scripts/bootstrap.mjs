@@ -53,3 +53,8 @@ if (forTests && !existsSync(process.env.CHROME_BIN || '/usr/bin/chromium')) {
   aptInstall('chromium', 'Chromium for the browser tests');
 }
 
+// 4. poppler-utils (pdftoppm, pdftotext): the QR-label tests render the PDF as a printer would and read it back.
+if (forTests && !existsSync('/usr/bin/pdftoppm')) {
+  aptInstall('poppler-utils', 'pdftoppm for the QR-label tests');
+}
+

@@ -13,7 +13,7 @@ const stack = await startStack({
 });
 await prepareDatabase(stack.env);
 
-const env = { ...process.env, ...stack.env, COOKIE_SECURE: 'false', STATIC_DIR: '' };
+const env = { ...process.env, ...stack.env, COOKIE_SECURE: 'false', STATIC_DIR: '', PUBLIC_URL: 'http://127.0.0.1:4200' };
 const children: ChildProcess[] = [
   spawn('npx', ['tsx', 'watch', '--clear-screen=false', 'api/main.ts'], { cwd: ROOT, env, stdio: 'inherit' }),
   spawn('npx', ['ng', 'serve', '--port', '4200'], { cwd: ROOT, env, stdio: 'inherit' }),

@@ -103,7 +103,8 @@ try {
     const files = testFiles(folder);
     if (!wanted(folder) || files.length === 0) continue;
     say(`${folder} tests…`);
-    const serial = folder === 'e2e' ? ['--test-concurrency=1'] : [];
+    // API and browser files share one database: run them one file at a time (fingerprint checks rely on it).
+    const serial = folder === 'e2e' || folder === 'api' ? ['--test-concurrency=1'] : [];
     const r = await runCommand('node', ['--import', 'tsx', '--test', '--test-reporter=spec', ...serial, ...files], env);
     tallies.push(nodeTally(`${folder} tests`, r));
   }

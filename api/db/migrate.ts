@@ -5,6 +5,10 @@ import * as m0002 from './migrations/0002-photos';
 import * as m0003 from './migrations/0003-procedures-and-records';
 import * as m0004 from './migrations/0004-one-draft-per-procedure';
 import * as m0005 from './migrations/0005-signatures-and-audit';
+import * as m0006 from './migrations/0006-archive-indexes';
+import * as m0007 from './migrations/0007-outbox-and-invitations';
+import * as m0008 from './migrations/0008-schedules';
+import * as m0009 from './migrations/0009-blades-and-competencies';
 
 export interface Migration {
   up: MigrationFn<QueryInterface>;
@@ -18,6 +22,10 @@ const MIGRATIONS: [string, Migration][] = [
   ['0003-procedures-and-records', m0003],
   ['0004-one-draft-per-procedure', m0004],
   ['0005-signatures-and-audit', m0005],
+  ['0006-archive-indexes', m0006],
+  ['0007-outbox-and-invitations', m0007],
+  ['0008-schedules', m0008],
+  ['0009-blades-and-competencies', m0009],
 ];
 
 export function createMigrator(sequelize: Sequelize) {

@@ -1,6 +1,7 @@
 import bcrypt from 'bcryptjs';
 import type { Role } from '../contracts/roles';
-import { ensureMachine } from '../modules/machines/repository';
+import { ensureMachine, ensureSchedule } from '../modules/machines/repository';
+import type { ScheduleTrigger } from '../contracts/schedules';
 import { upsertPerson } from '../modules/people/repository';
 
 /** The invented training workshop that the demo and the tests sign in to. */
@@ -77,6 +78,15 @@ export const DEMO_MACHINES = [
   },
 ];
 
+/** Check schedules on the demo saws (procedure keys from the bandsaw pack); common practice, not a rule. */
+export const DEMO_SCHEDULES: { assetTag: string; procedureKey: string; intervalDays: number | null; triggers: ScheduleTrigger[] }[] = [
+  { assetTag: 'BFW-SAW-01', procedureKey: 'blade-tension', intervalDays: 30, triggers: ['after_blade_change'] },
+  { assetTag: 'BFW-SAW-01', procedureKey: 'guide-bearings', intervalDays: 90, triggers: ['after_relocation'] },
+  { assetTag: 'BFW-SAW-01', procedureKey: 'blade-squareness', intervalDays: 180, triggers: ['after_relocation', 'after_failed_check'] },
+  { assetTag: 'BFW-SAW-02', procedureKey: 'blade-tension', intervalDays: 30, triggers: ['after_blade_change'] },
+  { assetTag: 'BFW-SAW-02', procedureKey: 'bow-descent', intervalDays: 90, triggers: [] },
+];
+
 /** Insert the demo workshop once; running it again changes nothing. */
 export async function seedDemo(bcryptCost: number): Promise<void> {
   let hash: string | undefined;
@@ -84,7 +94,11 @@ export async function seedDemo(bcryptCost: number): Promise<void> {
     hash ??= await bcrypt.hash(DEMO_PASSWORD, bcryptCost);
     await upsertPerson({ ...person, passwordHash: hash });
   }
+  const ids = new Map<string, string>();
   for (const machine of DEMO_MACHINES) {
-    await ensureMachine(machine);
+    ids.set(machine.assetTag, (await ensureMachine(machine)).id);
+  }
+  for (const { assetTag, ...schedule } of DEMO_SCHEDULES) {
+    await ensureSchedule({ machineId: ids.get(assetTag)!, ...schedule });
   }
 }

@@ -13,7 +13,13 @@ export type AuditAction =
   | 'record.addendum'
   | 'record.downloaded'
   | 'records.exported'
-  | 'record.checked';
+  | 'record.checked'
+  | 'person.invited'
+  | 'person.invitation_resent'
+  | 'person.password_set'
+  | 'person.roles_changed'
+  | 'person.deactivated'
+  | 'person.reactivated';
 
 /** Append one event to the audit trail (in the caller's transaction when there is one). */
 export async function audit(

@@ -1,8 +1,10 @@
 import { createHash, randomBytes } from 'node:crypto';
 import { existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs';
-import { join, resolve } from 'node:path';
+import { dirname, join, resolve } from 'node:path';
+import { freePort } from './ports';
 import { postgresCanReach, startCluster, type Cluster } from './postgres';
 import { startObjectStoreFake } from './s3';
+import { startSmtpStandIn } from './smtp';
 
 export const ROOT = resolve(import.meta.dirname, '..', '..');
 
@@ -57,6 +59,8 @@ export interface Stack {
 
 /** Where `npm start` keeps the object-store stand-in's files. */
 export const LOCAL_S3_DIR = join(ROOT, 'uploads-fake');
+/** Where `npm start` and `npm run dev` keep the messages the SMTP stand-in receives (git-ignored with .data/). */
+export const LOCAL_MAIL_DIR = join(ROOT, '.data', 'mail');
 
 /** Start the services Setwright needs and return the environment the API reads. */
 export async function startStack(o: {
@@ -69,6 +73,10 @@ export async function startStack(o: {
   s3Dir?: string;
   /** Its port on 127.0.0.1 (default: SETWRIGHT_S3_PORT or 54380). */
   s3Port?: number;
+  /** Folder of the SMTP stand-in (default: .data/mail; for tests, `mail` beside the throwaway cluster). */
+  mailDir?: string;
+  /** Its port on 127.0.0.1 (default: SETWRIGHT_SMTP_PORT or 54325; for tests, a free one). */
+  smtpPort?: number;
 }): Promise<Stack> {
   const cluster = await startCluster({
     dataDir: o.pgDir,
@@ -88,8 +96,22 @@ export async function startStack(o: {
     cluster.stop();
     throw err;
   }
+  const forTests = o.nodeEnv === 'test';
+  let smtp;
+  try {
+    smtp = await startSmtpStandIn({
+      directory: o.mailDir ?? (forTests ? join(dirname(o.pgDir), 'mail') : LOCAL_MAIL_DIR),
+      port: o.smtpPort ?? (forTests ? await freePort() : Number(process.env['SETWRIGHT_SMTP_PORT'] ?? 54325)),
+      log: say,
+    });
+  } catch (err) {
+    void s3.stop();
+    cluster.stop();
+    throw err;
+  }
   const env: Record<string, string> = {
     ...s3.env,
+    ...smtp.env,
     NODE_ENV: o.nodeEnv,
     DATABASE_URL: cluster.appUrl,
     DATABASE_ADMIN_URL: cluster.adminUrl,
@@ -102,6 +124,7 @@ export async function startStack(o: {
     cluster,
     env,
     stop() {
+      void smtp.stop();
       void s3.stop();
       cluster.stop();
     },

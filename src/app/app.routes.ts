@@ -9,6 +9,12 @@ export const routes: Routes = [
     loadComponent: () => import('./features/sign-in/sign-in').then((m) => m.SignIn),
   },
   {
+    // Where invitation links land: open to anyone holding a link, signed in or not.
+    path: 'set-password',
+    title: 'Set your password · Setwright',
+    loadComponent: () => import('./features/people/set-password').then((m) => m.SetPassword),
+  },
+  {
     path: '',
     canMatch: [signedInGuard],
     loadComponent: () => import('./core/shell').then((m) => m.Shell),
@@ -36,6 +42,20 @@ export const routes: Routes = [
         canMatch: [roleGuard('workshop_admin', 'competent_person', 'auditor')],
         title: 'Procedure version · Setwright',
         loadComponent: () => import('./features/procedures/version-page').then((m) => m.VersionPage),
+        // A draft with unsaved changes asks before it is left.
+        canDeactivate: [(page: { mayLeave(): boolean }) => page.mayLeave()],
+      },
+      {
+        path: 'machines/new',
+        canMatch: [roleGuard('workshop_admin')],
+        title: 'Register a machine · Setwright',
+        loadComponent: () => import('./features/machines/machine-edit').then((m) => m.MachineEdit),
+      },
+      {
+        path: 'machines/:id/edit',
+        canMatch: [roleGuard('workshop_admin')],
+        title: 'Edit machine · Setwright',
+        loadComponent: () => import('./features/machines/machine-edit').then((m) => m.MachineEdit),
       },
       {
         path: 'machines/:id',
@@ -54,9 +74,48 @@ export const routes: Routes = [
         loadComponent: () => import('./features/sign-off/sign-off-review').then((m) => m.SignOffReview),
       },
       {
+        path: 'records',
+        canMatch: [roleGuard('auditor', 'competent_person', 'workshop_admin')],
+        title: 'Records · Setwright',
+        loadComponent: () => import('./features/archive/records-archive').then((m) => m.RecordsArchive),
+      },
+      {
+        path: 'records/:id/check',
+        title: 'Record check · Setwright',
+        loadComponent: () => import('./features/archive/record-check').then((m) => m.RecordCheckPage),
+      },
+      {
+        path: 'people',
+        canMatch: [roleGuard('workshop_admin')],
+        title: 'People · Setwright',
+        loadComponent: () => import('./features/people/people-list').then((m) => m.PeopleList),
+      },
+      {
+        path: 'people/mail',
+        canMatch: [roleGuard('workshop_admin')],
+        title: 'Mail · Setwright',
+        loadComponent: () => import('./features/people/mail-list').then((m) => m.MailList),
+      },
+      {
         path: 'records/:id',
         title: 'Record · Setwright',
         loadComponent: () => import('./features/records/record-runner').then((m) => m.RecordRunner),
+      },
+      {
+        path: 'blades',
+        title: 'Blades · Setwright',
+        loadComponent: () => import('./features/blades/blades').then((m) => m.Blades),
+      },
+      {
+        path: 'blades/machines/:id',
+        title: 'Machine blades · Setwright',
+        loadComponent: () => import('./features/blades/machine-blades').then((m) => m.MachineBlades),
+      },
+      {
+        path: 'people/competencies',
+        canMatch: [roleGuard('competent_person', 'workshop_admin', 'auditor')],
+        title: 'Competency matrix · Setwright',
+        loadComponent: () => import('./features/competencies/competency-matrix').then((m) => m.CompetencyMatrix),
       },
     ],
   },

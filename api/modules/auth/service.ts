@@ -28,7 +28,7 @@ export class AuthService {
   async checkCredentials(email: string, password: string): Promise<Person | null> {
     const person = await findPersonByEmail(email);
     decoyHash ??= await bcrypt.hash('decoy: nobody signs in with this', this.bcryptCost);
-    const ok = await bcrypt.compare(password, person?.passwordHash ?? decoyHash);
+    const ok = await bcrypt.compare(password, person?.passwordHash || decoyHash);
     if (!person || !ok || !person.active) return null;
     const { passwordHash: _hidden, ...plain } = person;
     return plain;

@@ -16,6 +16,8 @@ export class User extends Model<InferAttributes<User>, InferCreationAttributes<U
   declare displayName: string;
   declare passwordHash: string;
   declare active: CreationOptional<boolean>;
+  /** Set while a workshop admin has deactivated the person; an invited person is inactive but not deactivated. */
+  declare deactivatedAt: CreationOptional<Date | null>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
   declare roleAssignments?: NonAttribute<RoleAssignment[]>;
@@ -28,6 +30,7 @@ export class User extends Model<InferAttributes<User>, InferCreationAttributes<U
         displayName: { type: DataTypes.STRING(120), allowNull: false },
         passwordHash: { type: DataTypes.STRING(100), allowNull: false },
         active: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: true },
+        deactivatedAt: { type: DataTypes.DATE, allowNull: true },
         createdAt: DataTypes.DATE,
         updatedAt: DataTypes.DATE,
       },
@@ -52,6 +55,39 @@ export class RoleAssignment extends Model<InferAttributes<RoleAssignment>, Infer
         updatedAt: DataTypes.DATE,
       },
       { sequelize, tableName: 'role_assignments' },
+    );
+  }
+}
+
+/** No password yet (an invited person): never a bcrypt hash, so no password matches it. */
+export const NO_PASSWORD = '';
+
+/** A single-use link to set a password, sent by e-mail; only a SHA-256 of the token is kept. */
+export class Invitation extends Model<InferAttributes<Invitation>, InferCreationAttributes<Invitation>> {
+  declare id: CreationOptional<string>;
+  declare userId: ForeignKey<User['id']>;
+  declare tokenHash: string;
+  declare invitedById: string | null;
+  declare expiresAt: Date;
+  declare usedAt: CreationOptional<Date | null>;
+  declare revokedAt: CreationOptional<Date | null>;
+  declare createdAt: CreationOptional<Date>;
+  declare updatedAt: CreationOptional<Date>;
+
+  static initModel(sequelize: Sequelize) {
+    Invitation.init(
+      {
+        id: { type: DataTypes.UUID, primaryKey: true, defaultValue: DataTypes.UUIDV4 },
+        userId: { type: DataTypes.UUID, allowNull: false },
+        tokenHash: { type: DataTypes.STRING(64), allowNull: false, unique: true },
+        invitedById: { type: DataTypes.UUID, allowNull: true },
+        expiresAt: { type: DataTypes.DATE, allowNull: false },
+        usedAt: { type: DataTypes.DATE, allowNull: true },
+        revokedAt: { type: DataTypes.DATE, allowNull: true },
+        createdAt: DataTypes.DATE,
+        updatedAt: DataTypes.DATE,
+      },
+      { sequelize, tableName: 'invitations' },
     );
   }
 }

@@ -63,3 +63,15 @@ export async function upsertPerson(
 export async function setActive(id: string, active: boolean): Promise<void> {
   await User.update({ active }, { where: { id } });
 }
+
+/** Active people holding any of these roles, each once, by name. */
+export async function activePeopleWithRoles(roles: Role[]): Promise<Person[]> {
+  const holders = await RoleAssignment.findAll({ where: { role: roles }, attributes: ['userId'] });
+  const ids = [...new Set(holders.map((h) => h.userId))];
+  if (!ids.length) return [];
+  const users = await User.findAll({ where: { id: ids, active: true }, ...withRoles, order: [['displayName', 'ASC']] });
+  return users.map((u) => {
+    const { passwordHash: _hidden, ...person } = toPerson(u);
+    return person;
+  });
+}

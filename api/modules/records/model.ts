@@ -13,11 +13,21 @@ import type { Machine } from '../machines/model';
 import type { User } from '../people/model';
 import type { ProcedureVersion } from '../procedures/model';
 
+export interface MachineSnapshot {
+  id: string;
+  name: string;
+  assetTag: string;
+  model: string;
+  location: string;
+}
+
 export class SetupRecord extends Model<InferAttributes<SetupRecord>, InferCreationAttributes<SetupRecord>> {
   declare id: string;
   declare machineId: string;
   declare procedureVersionId: string;
   declare machineSpec: Record<string, unknown>;
+  /** The machine as it stood when the record started (its name and place may change later). */
+  declare machineSnapshot: CreationOptional<MachineSnapshot | null>;
   declare status: RecordStatus;
   declare result: CreationOptional<RecordResult | null>;
   declare startedById: string;
@@ -40,6 +50,7 @@ export class SetupRecord extends Model<InferAttributes<SetupRecord>, InferCreati
         machineId: { type: DataTypes.UUID, allowNull: false },
         procedureVersionId: { type: DataTypes.UUID, allowNull: false },
         machineSpec: { type: DataTypes.JSONB, allowNull: false },
+        machineSnapshot: { type: DataTypes.JSONB, allowNull: true },
         status: { type: DataTypes.ENUM('underway', 'ready_for_signoff', 'signed_off', 'returned', 'voided'), allowNull: false },
         result: { type: DataTypes.ENUM('passed', 'failed'), allowNull: true },
         startedById: { type: DataTypes.UUID, allowNull: false },

@@ -12,6 +12,7 @@ import { ProcedureVersion } from '../procedures/model';
 import { audit } from '../../lib/audit';
 import { Signature } from '../signoff/model';
 import type { SignOffService } from '../signoff/service';
+import type { Notifier } from '../mail/notifier';
 import { SetupRecord, StepEntry } from './model';
 import { checkValues } from './values';
 import { entryView, recordDetail, recordSummary } from './views';
@@ -40,9 +41,23 @@ export class RecordService {
     private readonly auth: AuthService,
   ) {}
 
+  private startCheck?: (machineId: string, procedureKey: string) => Promise<void>;
+
+  /** A check made before a record starts (a tagged-out machine refuses most procedures); it throws to refuse. */
+  useStartCheck(check: (machineId: string, procedureKey: string) => Promise<void>) {
+    this.startCheck = check;
+  }
+
   /** Finishing signs the record as performed, through the sign-off service. */
   useSignOff(signOff: SignOffService) {
     this.signOff = signOff;
+  }
+
+  private notifier?: Pick<Notifier, 'recordAwaitsSignOff'>;
+
+  /** Competent persons are e-mailed when a record becomes ready for sign-off. */
+  useNotifier(notifier: Pick<Notifier, 'recordAwaitsSignOff'>) {
+    this.notifier = notifier;
   }
 
   /** Start a record pinned to the procedure's current approved version; a repeated client id returns the same record. */
@@ -64,11 +79,20 @@ export class RecordService {
         { pointer: '#/procedureKey', detail: 'Choose a procedure written for this machine.' },
       ]);
     }
+    await this.startCheck?.(machine.id, version.key);
     const id = req.id ?? randomUUID();
     try {
       await this.sequelize.transaction(async (transaction) => {
         await SetupRecord.create(
-          { id, machineId: machine.id, procedureVersionId: version.id, machineSpec: machine.spec, status: 'underway', startedById: person.id },
+          {
+            id,
+            machineId: machine.id,
+            procedureVersionId: version.id,
+            machineSpec: machine.spec,
+            machineSnapshot: { id: machine.id, name: machine.name, assetTag: machine.assetTag, model: machine.model, location: machine.location },
+            status: 'underway',
+            startedById: person.id,
+          },
           { transaction },
         );
         await audit('record.started', person.id, id, { machine: machine.assetTag, procedure: `${version.key} v${version.version}` }, transaction);
@@ -195,6 +219,8 @@ export class RecordService {
       );
       await audit('record.finished', person.id, recordId, { result: failed.length ? 'failed' : 'passed' }, transaction);
     });
+    // After the commit; it logs its own failures and never throws.
+    await this.notifier?.recordAwaitsSignOff(recordId);
     return this.get(person, recordId);
   }
 

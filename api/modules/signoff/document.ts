@@ -74,7 +74,8 @@ export async function buildRecordDocument(recordId: string, transaction?: Transa
       id: r.id,
       status: r.status,
       result: r.result,
-      machine: { id: m.id, name: m.name, assetTag: m.assetTag, model: m.model, location: m.location },
+      // The machine as it was when the record started, so moving or renaming it later leaves the hash intact.
+      machine: r.machineSnapshot ?? { id: m.id, name: m.name, assetTag: m.assetTag, model: m.model, location: m.location },
       machineSpec: r.machineSpec,
       procedure: { key: pv.key, version: pv.version, title: pv.title, checksum: pv.checksum },
       startedBy: { id: r.startedById, name: r.startedBy?.displayName ?? '' },

@@ -10,6 +10,7 @@ import {
 import { audit } from '../../lib/audit';
 import { AppError } from '../../lib/errors';
 import type { AuthService } from '../auth/service';
+import type { Notifier } from '../mail/notifier';
 import { Machine } from '../machines/model';
 import { User } from '../people/model';
 import type { Person } from '../people/repository';
@@ -29,10 +30,24 @@ const withParts = {
 
 /** Sign-off by a competent person, the hash chain that locks a record, send-backs, addenda and record checks. */
 export class SignOffService {
+  private readonly afterSignOff: ((recordId: string) => Promise<void>)[] = [];
+
   constructor(
     private readonly sequelize: Sequelize,
     private readonly auth: AuthService,
   ) {}
+
+  private notifier?: Pick<Notifier, 'recordReturned'>;
+
+  /** The performer is e-mailed when their record is sent back. */
+  useNotifier(notifier: Pick<Notifier, 'recordReturned'>) {
+    this.notifier = notifier;
+  }
+
+  /** Work to do once a sign-off has committed (rendering the PDF); it never undoes the signature. */
+  whenSignedOff(hook: (recordId: string) => Promise<void>) {
+    this.afterSignOff.push(hook);
+  }
 
   /** Records waiting for a signature, newest first, with what stands out. */
   async queue(): Promise<QueueItem[]> {
@@ -85,6 +100,8 @@ export class SignOffService {
       await locked!.update({ status: 'signed_off', signedAt, previousHash: doc.previousHash, recordHash }, { transaction });
       await audit('record.signed_off', person.id, recordId, { recordHash, previousHash: doc.previousHash }, transaction);
     });
+    // The signature stands whatever happens here: each hook logs its own failures.
+    for (const hook of this.afterSignOff) await hook(recordId).catch(() => undefined);
     return this.detail(recordId);
   }
 
@@ -99,6 +116,8 @@ export class SignOffService {
       await record.update({ status: 'returned', result: null, finishedAt: null }, { transaction });
       await audit('record.returned', person.id, recordId, { reason }, transaction);
     });
+    // After the commit; it logs its own failures and never throws.
+    await this.notifier?.recordReturned(recordId, reason, person.displayName);
     return this.detail(recordId);
   }
 

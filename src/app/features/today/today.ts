@@ -12,6 +12,7 @@ import { ROLE_LABELS, type Role } from '@setwright/contracts/roles';
 import { PLACES } from '../../core/places';
 import { Session } from '../../core/session';
 import { SafetyNote } from '../../shared/ui/safety-note';
+import { DueChecks } from './due-checks';
 
 /** What each role is for in Setwright, in the workshop's words. */
 const DUTIES: Record<Role, string[]> = {
@@ -39,7 +40,7 @@ const DUTIES: Record<Role, string[]> = {
 
 @Component({
   selector: 'sw-today',
-  imports: [MatCardModule, MatIconModule, MatButtonModule, RouterLink, SafetyNote],
+  imports: [MatCardModule, MatIconModule, MatButtonModule, RouterLink, SafetyNote, DueChecks],
   templateUrl: './today.html',
   styleUrl: './today.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
