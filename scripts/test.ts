@@ -60,11 +60,14 @@ function nodeTally(stage: string, r: RunResult): Tally {
   return { stage, passed: Number(pass[1]), failed: failed || (r.code === 0 ? 0 : 1) };
 }
 
+/** SETWRIGHT_TEST_MATCH=fuzz runs only the test files whose names contain that text (a quicker loop). */
+const fileMatch = process.env['SETWRIGHT_TEST_MATCH'];
+
 function testFiles(folder: string): string[] {
   const dir = join(ROOT, 'test', folder);
   try {
     return readdirSync(dir)
-      .filter((f) => f.endsWith('.test.ts'))
+      .filter((f) => f.endsWith('.test.ts') && (!fileMatch || f.includes(fileMatch)))
       .sort()
       .map((f) => join('test', folder, f));
   } catch {

@@ -8,7 +8,7 @@ import { listRoutes } from '../support/routes';
 
 /** Routes that accept any body by design (sign-out only clears the caller's own cookie). */
 const ACCEPTS_ANYTHING = new Set(['POST /api/auth/logout']);
-const RUNS_PER_ROUTE = Number(process.env['FUZZ_RUNS_PER_ROUTE'] ?? 260);
+const RUNS_PER_ROUTE = Number(process.env['FUZZ_RUNS_PER_ROUTE'] ?? 340);
 const FIELD_NAMES = ['email', 'password', 'values', 'stepId', 'idempotencyKey', 'reason', 'text', 'machineId', 'procedureKey', 'spec', 'name',
   'roles', 'acceptFailed', 'witness', 'correctiveNote', 'displayName', 'assetTag', 'token', 'expiresAt', 'personId', 'count', 'body', 'from'];
 
@@ -22,14 +22,14 @@ const badQuery = fc.dictionary(fc.constantFrom('page', 'size', 'sort', 'from', '
 
 /** Row counts and last-change times of every table: the fingerprint that refused requests must not move. */
 async function fingerprint(): Promise<Record<string, string>> {
-  const tables = await db().query<{ table_name: string }>(
-    `SELECT table_name FROM information_schema.tables WHERE table_schema = 'public' AND table_type = 'BASE TABLE' AND table_name NOT LIKE 'pgboss%' ORDER BY table_name`,
+  const tables = await db().query<{ name: string }>(
+    `SELECT table_name::text AS name FROM information_schema.tables WHERE table_schema = 'public' AND table_type = 'BASE TABLE' AND table_name NOT LIKE 'pgboss%' ORDER BY table_name`,
     { type: QueryTypes.SELECT },
   );
   const out: Record<string, string> = {};
-  for (const { table_name } of tables) {
-    const [row] = await db().query<{ n: string }>(`SELECT count(*)::text AS n FROM "${table_name}"`, { type: QueryTypes.SELECT });
-    out[table_name] = row!.n;
+  for (const { name } of tables) {
+    const [row] = await db().query<{ n: string }>(`SELECT count(*)::text AS n FROM "${name}"`, { type: QueryTypes.SELECT });
+    out[name] = row!.n;
   }
   return out;
 }

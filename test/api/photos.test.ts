@@ -261,7 +261,9 @@ describe('storing a photo', () => {
     const keys = await bucketKeys();
     const mine = keys.filter((k) => k.includes(res.body.id));
     assert.deepEqual(mine, [`photos/${res.body.id}/display.jpg`, `photos/${res.body.id}/thumb.jpg`]);
-    assert.ok(keys.every((k) => /^photos\/[0-9a-f-]{36}\/(display|thumb)\.jpg$/.test(k)), keys.join(', '));
+    // Every key is one the API made: photo renditions, and the record PDFs kept beside them.
+    const ours = /^(photos\/[0-9a-f-]{36}\/(display|thumb)\.jpg|records\/[0-9a-f-]{36}(\.pdf|\/with-\d+-addenda\.pdf))$/;
+    assert.ok(keys.every((k) => ours.test(k)), keys.join(', '));
     const row = await Photo.findByPk(res.body.id);
     assert.ok(row);
     assert.doesNotMatch(JSON.stringify(row.get({ plain: true })), /passwd|\.\./);
