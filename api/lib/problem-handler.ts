@@ -26,6 +26,19 @@ interface HttpishError {
   expose?: boolean;
 }
 
+/** Connection-level database failures (a restart, a lost connection): the request can be retried. */
+export function databaseUnavailable(err: unknown): boolean {
+  const e = err as { name?: string; original?: { code?: string }; parent?: { code?: string }; code?: string } | null;
+  if (!e) return false;
+  if (typeof e.name === 'string' && /^Sequelize(Connection\w*Error|HostNotReachableError|HostNotFoundError|InvalidConnectionError|ConnectionTimedOutError)$/.test(e.name)) return true;
+  const message = (err as Error).message ?? '';
+  // node-postgres reports a dropped connection only in its message.
+  if (/Connection terminated|connection error and is not queryable|terminating connection|the database system is (starting up|shutting down)/i.test(message)) return true;
+  const code = e.original?.code ?? e.parent?.code ?? e.code;
+  // 57P01-03: the server is shutting down or starting; 08xxx: connection exceptions.
+  return typeof code === 'string' && (/^57P0[123]$/.test(code) || /^08/.test(code) || code === 'ECONNREFUSED' || code === 'ECONNRESET');
+}
+
 /** The one error handler: AppErrors as they are, body-parser errors as 400/413, anything else as a bare 500. */
 export function problemHandler(logger: Logger): ErrorRequestHandler {
   return (err, req, res, next) => {
@@ -45,6 +58,18 @@ export function problemHandler(logger: Logger): ErrorRequestHandler {
       if (err.errors?.length) body.errors = err.errors;
       if (err.status >= 500) logger.error({ err }, 'request failed');
       send(res, body);
+      return;
+    }
+    if (databaseUnavailable(err)) {
+      logger.warn({ err }, 'database unavailable');
+      res.set('Retry-After', '2');
+      send(res, {
+        type: problemType('database-unavailable'),
+        title: 'The database is not answering',
+        status: 503,
+        detail: 'Nothing was saved by this request. Try again in a few seconds; your entries are still on the screen.',
+        instance: req.originalUrl,
+      });
       return;
     }
     const e = err as HttpishError;

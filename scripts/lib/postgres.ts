@@ -45,6 +45,16 @@ export function postgresCanReach(dir: string): boolean {
   return spawnSync('runuser', ['-u', 'postgres', '--', 'test', '-x', dir]).status === 0;
 }
 
+/** Restart a running cluster (fast shutdown: open connections are dropped), for fault tests. */
+export function restartCluster(dataDir: string): void {
+  pgRun('pg_ctl', ['-D', dataDir, '-m', 'fast', '-l', join(dataDir, 'server.log'), '-w', '-t', '60', 'restart']);
+}
+
+/** The folder holding PostgreSQL's programs (pg_dump, pg_restore…). */
+export function postgresBinDir(): string {
+  return binDir();
+}
+
 export interface StartOptions {
   dataDir: string;
   port: number;

@@ -115,6 +115,7 @@ export async function startStack(o: {
     NODE_ENV: o.nodeEnv,
     DATABASE_URL: cluster.appUrl,
     DATABASE_ADMIN_URL: cluster.adminUrl,
+    SETWRIGHT_PG_DIR: cluster.dataDir,
     JWT_SECRET: o.secrets.jwtSecret,
     PORT: String(o.apiPort),
     HOST: '127.0.0.1',
