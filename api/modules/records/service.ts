@@ -148,7 +148,8 @@ export class RecordService {
 
     try {
       const entry = await this.sequelize.transaction(async (transaction) => {
-        await SetupRecord.findByPk(record.id, { transaction, lock: transaction.LOCK.UPDATE });
+        // Attempts of one step are numbered one at a time; other steps and records go on in parallel.
+        await this.sequelize.query('SELECT pg_advisory_xact_lock(hashtext(:key))', { replacements: { key: `${record.id}/${step.id}` }, transaction });
         await this.attachPhotos(person, record.id, photoIds, transaction);
         const last = (await StepEntry.max('attempt', { where: { recordId: record.id, stepId: step.id }, transaction })) as number | null;
         const created = await StepEntry.create(
