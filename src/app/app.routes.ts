@@ -33,6 +33,8 @@ export const routes: Routes = [
       },
       {
         path: 'procedures',
+        // Full match: otherwise this guard would also catch the pages under it (/procedures/…).
+        pathMatch: 'full',
         canMatch: [roleGuard('workshop_admin', 'competent_person', 'auditor')],
         title: 'Procedures · Setwright',
         loadComponent: () => import('./features/procedures/procedure-library').then((m) => m.ProcedureLibrary),
@@ -64,6 +66,7 @@ export const routes: Routes = [
       },
       {
         path: 'to-sign',
+        pathMatch: 'full',
         title: 'To sign · Setwright',
         canMatch: [roleGuard('competent_person')],
         loadComponent: () => import('./features/sign-off/sign-off-queue').then((m) => m.SignOffQueue),
@@ -75,6 +78,8 @@ export const routes: Routes = [
       },
       {
         path: 'records',
+        // Full match: otherwise this guard would also catch the pages under it (/records/…).
+        pathMatch: 'full',
         canMatch: [roleGuard('auditor', 'competent_person', 'workshop_admin')],
         title: 'Records · Setwright',
         loadComponent: () => import('./features/archive/records-archive').then((m) => m.RecordsArchive),
@@ -86,6 +91,8 @@ export const routes: Routes = [
       },
       {
         path: 'people',
+        // Full match: otherwise this guard would also catch the pages under it (/people/…).
+        pathMatch: 'full',
         canMatch: [roleGuard('workshop_admin')],
         title: 'People · Setwright',
         loadComponent: () => import('./features/people/people-list').then((m) => m.PeopleList),

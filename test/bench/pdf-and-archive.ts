@@ -4,7 +4,7 @@
 //  2. The archive query on 100,000 generated records and 2 million step entries (made with SQL
 //     generate_series in a throwaway PostgreSQL this script starts and removes): p95 of the default
 //     page and of filtered pages.
-import { chmodSync, mkdtempSync, rmSync } from 'node:fs';
+import { chmodSync, mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { performance } from 'node:perf_hooks';
@@ -171,6 +171,8 @@ function barePdfkit(data: RecordPdfData, drawn: Drawn[]): Promise<Buffer> {
 
 async function benchPdf() {
   const data = await benchRecord();
+  // BENCH_PDF_OUT=/tmp/record.pdf keeps one rendering to look at.
+  if (process.env['BENCH_PDF_OUT']) writeFileSync(process.env['BENCH_PDF_OUT'], await renderRecordPdf(data));
   const drawn = await drawnBy(data);
   const ours: number[] = [];
   const bare: number[] = [];

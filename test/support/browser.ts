@@ -58,3 +58,21 @@ export async function signInThroughPage(page: Page, base: string, email: string,
   await page.getByRole('button', { name: 'Sign in' }).click();
   await page.waitForURL(/\/today/);
 }
+
+/** One axe-core finding, cut down to what a report needs. */
+export interface AxeFinding {
+  id: string;
+  impact: string | null;
+  help: string;
+  targets: string[];
+}
+
+/** Runs axe-core (the npm package, injected from node_modules) on the page as it stands: WCAG 2.x A and AA rules. */
+export async function axe(page: Page): Promise<AxeFinding[]> {
+  await page.addScriptTag({ path: resolve(import.meta.dirname, '..', '..', 'node_modules', 'axe-core', 'axe.min.js') });
+  return page.evaluate(async () => {
+    const w = window as unknown as { axe: { run(ctx: Document, o: object): Promise<{ violations: { id: string; impact: string | null; help: string; nodes: { target: string[] }[] }[] }> } };
+    const result = await w.axe.run(document, { runOnly: { type: 'tag', values: ['wcag2a', 'wcag2aa', 'wcag21a', 'wcag21aa', 'wcag22aa', 'best-practice'] } });
+    return result.violations.map((v) => ({ id: v.id, impact: v.impact, help: v.help, targets: v.nodes.map((n) => n.target.join(' ')) }));
+  });
+}

@@ -18,7 +18,8 @@ export function toProblem(error: unknown): Problem {
     if (body && typeof body === 'object' && typeof body.title === 'string') {
       return { type: body.type ?? 'about:blank', title: body.title, status: body.status ?? error.status, detail: body.detail, errors: body.errors };
     }
-    if (error.status === 0) {
+    // 504 without a problem body: the service worker (or a gateway) could not reach the server.
+    if (error.status === 0 || error.status === 504) {
       return { type: '/problems/offline', title: 'No connection', status: 0, detail: 'The server could not be reached. Check the workshop Wi-Fi and try again.' };
     }
     return { type: 'about:blank', title: error.statusText || 'Request failed', status: error.status };

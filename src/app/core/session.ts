@@ -4,6 +4,8 @@ import { Router } from '@angular/router';
 import { firstValueFrom } from 'rxjs';
 import type { LoginRequest, SessionResponse, SessionUser } from '@setwright/contracts/auth';
 import type { Role } from '@setwright/contracts/roles';
+import { forgetUser, rememberedUser, rememberUser } from './offline/device-user';
+import { toProblem } from './problem';
 
 /** Requests marked with this handle their own problems (no snackbar, no sign-out on 401). */
 export const OWN_ERRORS = new HttpContextToken<boolean>(() => false);
@@ -40,14 +42,23 @@ export class Session {
     return res.user;
   }
 
-  /** Swap the refresh cookie for a new access token; false when the session has ended. Concurrent callers share one request. */
+  /**
+   * Swap the refresh cookie for a new access token; false when the session has ended. Concurrent
+   * callers share one request. Without a connection nothing is known to have ended: the person
+   * last signed in on this tablet carries on offline, and the next request once it is back checks.
+   */
   refresh(): Promise<boolean> {
     this.refreshing ??= firstValueFrom(this.http.post<SessionResponse>('/api/auth/refresh', {}, { context: ownErrors() }))
       .then((res) => {
         this.accept(res);
         return true;
       })
-      .catch(() => {
+      .catch((err: unknown) => {
+        const user = toProblem(err).status === 0 ? (this.state()?.user ?? rememberedUser()) : null;
+        if (user) {
+          this.state.update((s) => ({ user, token: s?.token ?? '', expiresAt: 0 }));
+          return true;
+        }
         this.clear();
         return false;
       })
@@ -57,6 +68,7 @@ export class Session {
 
   async signOut(reason?: 'expired'): Promise<void> {
     const wasSignedIn = this.signedIn();
+    forgetUser();
     this.clear();
     if (wasSignedIn) {
       await firstValueFrom(this.http.post('/api/auth/logout', {}, { context: ownErrors() })).catch(() => undefined);
@@ -66,6 +78,7 @@ export class Session {
 
   private accept(res: SessionResponse) {
     this.state.set({ user: res.user, token: res.accessToken, expiresAt: Date.now() + res.expiresIn * 1000 });
+    rememberUser(res.user);
     clearTimeout(this.timer);
     // Renew a minute before the access token runs out, so a long step never meets a 401.
     const renewIn = Math.max(5, res.expiresIn - 60) * 1000;

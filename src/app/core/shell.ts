@@ -10,13 +10,14 @@ import { MatToolbarModule } from '@angular/material/toolbar';
 import { RouterLink, RouterLinkActive, RouterOutlet } from '@angular/router';
 import { map } from 'rxjs';
 import { ROLE_LABELS } from '@setwright/contracts/roles';
+import { ConnectionStatus } from './offline/connection-status';
 import { PLACES } from './places';
 import { Session } from './session';
 
 /** The frame around every signed-in page: a toolbar, the places the person may open, and the page. */
 @Component({
   selector: 'sw-shell',
-  imports: [RouterOutlet, RouterLink, RouterLinkActive, MatToolbarModule, MatSidenavModule, MatListModule, MatButtonModule, MatIconModule, MatMenuModule],
+  imports: [RouterOutlet, RouterLink, RouterLinkActive, MatToolbarModule, MatSidenavModule, MatListModule, MatButtonModule, MatIconModule, MatMenuModule, ConnectionStatus],
   templateUrl: './shell.html',
   styleUrl: './shell.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,

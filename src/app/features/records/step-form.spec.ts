@@ -10,7 +10,12 @@ import { provideRouter } from '@angular/router';
 import { bladeStress, quantity, valueIn } from '@setwright/maths';
 import type { StepEntryView } from '@setwright/contracts/records';
 import { procedureSchema, type Step } from '@setwright/procedures/schema';
+import { deleteDB } from 'idb';
 import { problemInterceptor, tokenInterceptor } from '../../core/interceptors';
+import { OFFLINE_DB_NAME, OfflineDb } from '../../core/offline/offline-db';
+import { Outbox } from '../../core/offline/outbox';
+import type { EntryItem } from '../../core/offline/outbox-items';
+import { Session } from '../../core/session';
 import { ReadingFieldHarness } from '../../shared/ui/reading-field/reading-field-harness';
 import { StepForm } from './step-form';
 
@@ -75,7 +80,11 @@ function entryFrom(req: TestRequest, outcome: 'done' | 'out_of_limits' = 'done')
 }
 
 describe('StepForm', () => {
-  async function setUp(step: Step) {
+  let dbName: string;
+
+  /** With `signedIn`, someone is signed in and the tablet can keep steps. */
+  async function setUp(step: Step, signedIn = false) {
+    dbName = `setwright-step-form-spec-${crypto.randomUUID()}`;
     TestBed.configureTestingModule({
       imports: [StepForm],
       providers: [
@@ -83,14 +92,24 @@ describe('StepForm', () => {
         provideRouter([]),
         provideHttpClient(withInterceptors([problemInterceptor, tokenInterceptor])),
         provideHttpClientTesting(),
+        { provide: OFFLINE_DB_NAME, useValue: dbName },
       ],
     });
+    if (signedIn) {
+      const signingIn = TestBed.inject(Session).signIn({ email: 'e@tests.example', password: 'p' });
+      TestBed.inject(HttpTestingController)
+        .expectOne('/api/auth/login')
+        .flush({ accessToken: 't', expiresIn: 900, user: { id: 'u1', email: 'e@tests.example', displayName: 'Ellis', roles: ['trainee'] } });
+      await signingIn;
+    }
     const fixture = TestBed.createComponent(StepForm);
     fixture.componentRef.setInput('recordId', 'r1');
     fixture.componentRef.setInput('step', step);
     fixture.componentRef.setInput('spec', spec);
     const saved: StepEntryView[] = [];
     fixture.componentInstance.saved.subscribe((e) => saved.push(e));
+    const kept: EntryItem[] = [];
+    fixture.componentInstance.kept.subscribe((e) => kept.push(e));
     await fixture.whenStable();
     const loader = TestbedHarnessEnvironment.loader(fixture);
     const root = TestbedHarnessEnvironment.documentRootLoader(fixture);
@@ -110,9 +129,14 @@ describe('StepForm', () => {
       await new Promise((r) => setTimeout(r, 50));
       await fixture.whenStable();
     };
-    return { fixture, loader, root, http, saved, clickAndAnswer };
+    return { fixture, loader, root, http, saved, kept, clickAndAnswer };
   }
-  afterEach(() => TestBed.inject(HttpTestingController).verify());
+  afterEach(async () => {
+    TestBed.inject(HttpTestingController).verify();
+    await TestBed.inject(OfflineDb).close();
+    TestBed.resetTestingModule();
+    await deleteDB(dbName);
+  });
 
   it('when a reading is inside the machine’s range, then it says so and shows the library’s stress', async () => {
     const { loader, fixture } = await setUp(procedure.steps[0]!);
@@ -153,7 +177,7 @@ describe('StepForm', () => {
     expect(saved.length).toBe(1);
   });
 
-  it('when the connection drops, then the entries stay and the retry sends the same key', async () => {
+  it('when the tablet cannot keep the step (nobody signed in) and the connection drops, then the entries stay and the retry sends the same key', async () => {
     const { loader, clickAndAnswer } = await setUp(procedure.steps[0]!);
     await (await loader.getHarness(ReadingFieldHarness)).setValue('800');
     const save = await loader.getHarness(MatButtonHarness.with({ text: 'Save step' }));
@@ -198,5 +222,44 @@ describe('StepForm', () => {
     });
     expect(witness).toEqual({ email: 'dougal@tests.example', password: 'secret' });
     expect(saved.length).toBe(1);
+  });
+
+  it('when the connection drops while a signed-in trainee saves, then the step is kept on this tablet with the same key, and the form says it waits there', async () => {
+    const { loader, fixture, saved, kept, clickAndAnswer } = await setUp(procedure.steps[0]!, true);
+    await (await loader.getHarness(ReadingFieldHarness)).setValue('800');
+    let key = '';
+    await clickAndAnswer(await loader.getHarness(MatButtonHarness.with({ text: 'Save step' })), (req) => {
+      key = req.request.body.idempotencyKey;
+      req.error(new ProgressEvent('error'), { status: 0, statusText: 'Unknown Error' });
+    });
+    for (let i = 0; i < 100 && !kept.length; i++) await new Promise((r) => setTimeout(r, 10));
+    expect(saved.length).toBe(0);
+    expect(kept.length).toBe(1);
+    expect(kept[0]!.request).toEqual({ idempotencyKey: key, stepId: 'tension', values: { reading: 800 }, correctiveNote: undefined });
+    expect(kept[0]!.preview.outcome).toBe('done');
+    const onDevice = await TestBed.inject(OfflineDb).items('u1');
+    expect(onDevice.map((i) => (i.kind === 'entry' ? i.request.idempotencyKey : ''))).toEqual([key]);
+    expect(TestBed.inject(Outbox).waiting()).toBe(1);
+    expect(document.querySelector('.message')).toBeNull();
+
+    // The runner shows it as the step's entry, waiting on this device.
+    fixture.componentRef.setInput('onDevice', true);
+    await fixture.whenStable();
+    expect((fixture.nativeElement as HTMLElement).querySelector('.on-device')!.textContent).toContain('Saved on this tablet, waiting to go to the server');
+  });
+
+  it('when there is no connection, then a step with power on says it needs one and cannot be saved, and nothing is kept', async () => {
+    const { loader, fixture, kept } = await setUp(procedure.steps[1]!, true);
+    window.dispatchEvent(new Event('offline'));
+    await fixture.whenStable();
+    await (await loader.getHarness(MatButtonToggleHarness.with({ text: 'Yes' }))).check();
+    expect((fixture.nativeElement as HTMLElement).querySelector('.needs-connection')!.textContent).toContain('this step waits for the Wi-Fi');
+    const save = await loader.getHarness(MatButtonHarness.with({ text: 'Call a witness and save' }));
+    expect(await save.isDisabled()).toBeTrue();
+    expect(kept.length).toBe(0);
+    expect(await TestBed.inject(OfflineDb).items('u1')).toEqual([]);
+    window.dispatchEvent(new Event('online'));
+    await fixture.whenStable();
+    expect(await save.isDisabled()).toBeFalse();
   });
 });

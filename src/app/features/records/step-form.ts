@@ -13,6 +13,9 @@ import { firstValueFrom, map, startWith, switchMap } from 'rxjs';
 import type { StepEntryView } from '@setwright/contracts/records';
 import { evaluateStep, type ComputedResult, type EntryValue, type EntryValues, type MachineSpec } from '@setwright/procedures/engine';
 import type { Step, StepInput } from '@setwright/procedures/schema';
+import { Connection } from '../../core/offline/connection';
+import { Outbox } from '../../core/offline/outbox';
+import type { EntryItem } from '../../core/offline/outbox-items';
 import { applyProblemToForm, toProblem, type Problem } from '../../core/problem';
 import { CautionList } from '../../shared/ui/caution/caution-list';
 import { PhotoCapture } from '../../shared/ui/photo-capture/photo-capture';
@@ -21,6 +24,9 @@ import { RecordApi } from './record-api';
 import { WitnessDialog, type WitnessCredentials, type WitnessDialogData } from './witness-dialog';
 
 type Values = Record<string, EntryValue>;
+
+const OFFLINE_POWERED =
+  'This step runs with power on: the witness signs in on the server, so it needs the connection. Carry on with the other steps, and come back to this one when the Wi-Fi is back.';
 
 function controlFor(input: StepInput, value: unknown): FormControl {
   switch (input.type) {
@@ -58,6 +64,8 @@ function controlFor(input: StepInput, value: unknown): FormControl {
 export class StepForm {
   private readonly api = inject(RecordApi);
   private readonly dialog = inject(MatDialog);
+  private readonly outbox = inject(Outbox);
+  private readonly connection = inject(Connection);
 
   readonly recordId = input.required<string>();
   readonly step = input.required<Step>();
@@ -67,7 +75,12 @@ export class StepForm {
   /** The person may complete a powered step without a separate witness (a competent person running it). */
   readonly selfWitness = input(false);
   readonly readOnly = input(false);
+  /** The entry shown waits on this device (not yet on the server). */
+  readonly onDevice = input(false);
+  /** Saved on the server. */
   readonly saved = output<StepEntryView>();
+  /** Kept on this device, to go to the server when the connection is back. */
+  readonly kept = output<EntryItem>();
 
   protected readonly busy = signal(false);
   protected readonly message = signal<string | null>(null);
@@ -103,6 +116,8 @@ export class StepForm {
 
   protected readonly inputResult = (id: string) => this.evaluation()?.inputs.find((i) => i.id === id);
   protected readonly needsWitness = computed(() => this.step().powered && !this.selfWitness());
+  /** A step run with power on is witnessed there and then, so it needs the server. */
+  protected readonly waitsForConnection = computed(() => !!this.step().powered && !this.connection.online());
 
   /** A result's own explanation (a verdict's message), when the maths gives one. */
   protected note(c: ComputedResult): string | null {
@@ -130,6 +145,10 @@ export class StepForm {
       this.message.set('Something is out of limits: say what you found and what you did, then save. Or fix it and re-measure.');
       return;
     }
+    if (this.waitsForConnection()) {
+      this.message.set(OFFLINE_POWERED);
+      return;
+    }
     let witness: WitnessCredentials | undefined;
     if (this.needsWitness()) {
       witness = await this.askWitness();
@@ -151,24 +170,44 @@ export class StepForm {
       values[input.id] = v === '' ? null : v;
     }
     this.pendingKey ??= crypto.randomUUID();
+    const request = { idempotencyKey: this.pendingKey, stepId: this.step().id, values, correctiveNote: note || undefined };
+    // Steps with power on go straight to the server (a witness signs there and then); others keep
+    // their place in the queue behind anything of this record still waiting on the device.
+    const queueable = !this.step().powered && this.outbox.canKeep();
     this.busy.set(true);
     try {
-      const entry = await this.api.saveStep(this.recordId(), {
-        idempotencyKey: this.pendingKey,
-        stepId: this.step().id,
-        values,
-        correctiveNote: note || undefined,
-        witness,
-      });
+      if (queueable && this.outbox.mustQueue(this.recordId(), values)) {
+        await this.keep(request);
+        return;
+      }
+      const entry = await this.api.saveStep(this.recordId(), { ...request, values: this.outbox.withServerPhotoIds(values), witness });
       this.pendingKey = null;
       this.saved.emit(entry);
     } catch (err) {
       const problem: Problem = toProblem(err);
+      this.connection.reachedServer(problem.status !== 0);
+      if (problem.status === 0 && queueable) {
+        await this.keep(request);
+        return;
+      }
       if (problem.status !== 0) this.pendingKey = null;
       if (witness) this.witnessEmail = witness.email;
       this.showProblem(problem, !!witness);
     } finally {
       this.busy.set(false);
+    }
+  }
+
+  /** Keep the step on this device with its idempotency key; it goes to the server in its turn. */
+  private async keep(request: EntryItem['request']) {
+    const evaluation = this.evaluation()!;
+    try {
+      const item = await this.outbox.keepEntry(this.recordId(), request, { evaluation, outcome: evaluation.outOfLimits ? 'out_of_limits' : 'done' });
+      this.pendingKey = null;
+      this.message.set(null);
+      this.kept.emit(item);
+    } catch {
+      this.message.set('No connection, and this tablet could not keep the step. Your entries are still here: save again when the connection is back.');
     }
   }
 

@@ -8,7 +8,11 @@ import { MatButtonHarness } from '@angular/material/button/testing';
 import { MatProgressBarHarness } from '@angular/material/progress-bar/testing';
 import { provideRouter } from '@angular/router';
 import type { PhotoView } from '@setwright/contracts/photos';
+import { deleteDB } from 'idb';
 import { problemInterceptor, tokenInterceptor } from '../../../core/interceptors';
+import { OFFLINE_DB_NAME, OfflineDb } from '../../../core/offline/offline-db';
+import { Outbox } from '../../../core/offline/outbox';
+import { Session } from '../../../core/session';
 import { PhotoCapture } from './photo-capture';
 import { PhotoCaptureHarness } from './photo-capture-harness';
 
@@ -50,8 +54,10 @@ describe('PhotoCapture', () => {
   let loader: HarnessLoader;
   let capture: PhotoCaptureHarness;
   let http: HttpTestingController;
+  let dbName: string;
 
   beforeEach(async () => {
+    dbName = `setwright-photo-spec-${crypto.randomUUID()}`;
     TestBed.configureTestingModule({
       imports: [Host],
       providers: [
@@ -59,6 +65,7 @@ describe('PhotoCapture', () => {
         provideRouter([]),
         provideHttpClient(withInterceptors([problemInterceptor, tokenInterceptor])),
         provideHttpClientTesting(),
+        { provide: OFFLINE_DB_NAME, useValue: dbName },
       ],
     });
     fixture = TestBed.createComponent(Host);
@@ -67,7 +74,12 @@ describe('PhotoCapture', () => {
     http = TestBed.inject(HttpTestingController);
   });
 
-  afterEach(() => http.verify());
+  afterEach(async () => {
+    http.verify();
+    await TestBed.inject(OfflineDb).close();
+    TestBed.resetTestingModule();
+    await deleteDB(dbName);
+  });
 
   const expectUpload = (): TestRequest => http.expectOne({ method: 'POST', url: '/api/photos' });
 
@@ -116,7 +128,7 @@ describe('PhotoCapture', () => {
     expect(await capture.count()).toBe('1 of 3 photos.');
   });
 
-  it('when the connection drops, then "No connection" and Retry show, and Retry sends the same file again', async () => {
+  it('when nobody is signed in and the connection drops, then "No connection" and Retry show, and Retry sends the same file again', async () => {
     const file = photoFile('guide-gap.jpg');
     await capture.pick([file]);
     const first = expectUpload();
@@ -221,5 +233,32 @@ describe('PhotoCapture', () => {
     expect(await capture.states()).toEqual(['done']);
     const [preview] = await capture.previews();
     expect(preview).toMatch(/^blob:/);
+  });
+
+  it('when there is no connection, then the photo is kept on this tablet under a local id that joins the value, and Remove drops it without asking the server', async () => {
+    const signingIn = TestBed.inject(Session).signIn({ email: 'e@tests.example', password: 'p' });
+    http.expectOne('/api/auth/login').flush({ accessToken: 't', expiresIn: 900, user: { id: 'u1', email: 'e@tests.example', displayName: 'Ellis', roles: ['trainee'] } });
+    await signingIn;
+    window.dispatchEvent(new Event('offline'));
+    const file = photoFile('wear.jpg');
+    await capture.pick([file]);
+    for (let i = 0; i < 100 && fixture.componentInstance.photos().length === 0; i++) await new Promise((r) => setTimeout(r, 10));
+    await fixture.whenStable();
+
+    http.expectNone({ method: 'POST', url: '/api/photos' });
+    expect(await capture.states()).toEqual(['on-device']);
+    expect((await capture.messages())[0]).toContain('Kept on this tablet');
+    const [localId] = fixture.componentInstance.photos();
+    expect(localId).toMatch(/^[0-9a-f-]{36}$/);
+    const kept = TestBed.inject(Outbox).localPhoto(localId!);
+    expect(kept!.fileName).toBe('wear.jpg');
+    expect(await bytesOf(kept!.blob)).toEqual(await bytesOf(file));
+    expect((await capture.previews())[0]).toMatch(/^blob:/);
+
+    await (await loader.getHarness(MatButtonHarness.with({ text: 'Remove' }))).click();
+    for (let i = 0; i < 100 && TestBed.inject(Outbox).localPhoto(localId!); i++) await new Promise((r) => setTimeout(r, 10));
+    expect(fixture.componentInstance.photos()).toEqual([]);
+    expect(await TestBed.inject(OfflineDb).items('u1')).toEqual([]);
+    window.dispatchEvent(new Event('online'));
   });
 });

@@ -19,15 +19,18 @@ import { MatIconModule } from '@angular/material/icon';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
 import type { Subscription } from 'rxjs';
 import type { PhotoView } from '@setwright/contracts/photos';
+import { Connection } from '../../../core/offline/connection';
+import { Outbox } from '../../../core/offline/outbox';
 import { toProblem, type Problem } from '../../../core/problem';
 import { PhotoApi } from './photo-api';
 
-type SlotState = 'uploading' | 'done' | 'offline' | 'failed' | 'refused' | 'removing';
+/** 'on-device': kept on the tablet under a local id, uploaded by the queue when the connection is back. */
+type SlotState = 'uploading' | 'done' | 'on-device' | 'offline' | 'failed' | 'refused' | 'removing';
 
 /** One photo in the field, from the moment it is picked. */
 interface Slot {
   readonly key: number;
-  /** The stored photo's id, once uploaded. */
+  /** The stored photo's id, once uploaded; or the local id of a photo kept on the tablet. */
   readonly id: string | null;
   /** A retake: the stored photo this one takes the place of once it is uploaded. */
   readonly replaces: string | null;
@@ -66,6 +69,8 @@ let nextFieldId = 0;
 export class PhotoCapture {
   private readonly api = inject(PhotoApi);
   private readonly destroyRef = inject(DestroyRef);
+  private readonly outbox = inject(Outbox);
+  private readonly connection = inject(Connection);
 
   /** What the photos are of, e.g. "Tension gauge reading". */
   readonly label = input.required<string>();
@@ -98,7 +103,11 @@ export class PhotoCapture {
     // Photos set from outside (a step opened again) are shown with their thumbnails.
     effect(() => {
       const ids = this.photos();
-      untracked(() => this.adopt(ids));
+      this.outbox.items(); // photos kept on the tablet are shown, and swapped for the server's once uploaded
+      untracked(() => {
+        this.adopt(ids);
+        this.swapUploaded();
+      });
     });
     this.destroyRef.onDestroy(() => {
       this.uploads.forEach((s) => s.unsubscribe());
@@ -151,6 +160,12 @@ export class PhotoCapture {
       this.drop(slot.key);
       return;
     }
+    if (this.kept(stored)) {
+      // Not on the server (or only there unattached): it leaves the field; a step kept with it keeps it.
+      void this.outbox.discardPhoto(stored);
+      this.drop(slot.key);
+      return;
+    }
     this.patch(slot.key, { state: 'removing', message: '' });
     this.api
       .remove(stored)
@@ -192,6 +207,10 @@ export class PhotoCapture {
   private send(key: number) {
     const slot = this.slot(key);
     if (!slot?.file) return;
+    if (!this.connection.online() && this.outbox.canKeep()) {
+      void this.keepOnDevice(key);
+      return;
+    }
     this.uploads.get(key)?.unsubscribe();
     this.patch(key, { state: 'uploading', progress: 0, message: '' });
     const sub = this.api.upload(slot.file, slot.file.name || 'photo').subscribe({
@@ -213,17 +232,63 @@ export class PhotoCapture {
     this.uploads.delete(key);
     this.patch(key, { id: photo.id, replaces: null, file: null, state: 'done', progress: 100, message: '' });
     this.publish();
-    if (slot.replaces) {
-      // The retaken photo is no longer wanted; if it cannot be removed now it stays unattached and unseen.
-      this.api.remove(slot.replaces).pipe(takeUntilDestroyed(this.destroyRef)).subscribe({ error: () => undefined });
-    }
+    this.forgetReplaced(slot.replaces);
     this.loadThumbnail(key, photo.id);
+  }
+
+  /** The retaken photo is no longer wanted; if it cannot be removed now it stays unattached and unseen. */
+  private forgetReplaced(id: string | null) {
+    if (!id) return;
+    if (this.kept(id)) {
+      void this.outbox.discardPhoto(id);
+      return;
+    }
+    this.api.remove(id).pipe(takeUntilDestroyed(this.destroyRef)).subscribe({ error: () => undefined });
+  }
+
+  /** No connection: the photo waits on the tablet under a local id, and the queue uploads it before the step that uses it. */
+  private async keepOnDevice(key: number) {
+    const slot = this.slot(key);
+    if (!slot?.file) return;
+    this.patch(key, { state: 'uploading', progress: 0, message: '' });
+    try {
+      const localId = await this.outbox.keepPhoto(slot.file, slot.file.name || 'photo.jpg');
+      if (!this.slot(key)) {
+        void this.outbox.discardPhoto(localId);
+        return;
+      }
+      this.patch(key, { id: localId, replaces: null, file: null, state: 'on-device', progress: 0, message: '' });
+      this.forgetReplaced(slot.replaces);
+      this.publish();
+    } catch {
+      this.patch(key, { state: 'offline', message: '' });
+    }
+  }
+
+  /** A local id this tablet knows: a photo kept here, waiting or already uploaded by the queue. */
+  private kept(id: string): boolean {
+    return !!this.outbox.localPhoto(id) || !!this.outbox.serverPhotoId(id);
+  }
+
+  /** Photos kept on the tablet that the queue has uploaded take the server's id. */
+  private swapUploaded() {
+    let changed = false;
+    for (const slot of this.slots()) {
+      const serverId = slot.state === 'on-device' && slot.id ? this.outbox.serverPhotoId(slot.id) : undefined;
+      if (!serverId) continue;
+      this.patch(slot.key, { id: serverId, state: 'done' });
+      changed = true;
+    }
+    if (changed) this.publish();
   }
 
   private failed(key: number, err: unknown) {
     this.uploads.delete(key);
     const problem = asProblem(err);
-    if (problem.status === 0) {
+    this.connection.reachedServer(problem.status !== 0);
+    if (problem.status === 0 && this.outbox.canKeep()) {
+      void this.keepOnDevice(key);
+    } else if (problem.status === 0) {
       this.patch(key, { state: 'offline', message: '' });
     } else if (problem.status >= 500 || problem.status === 408 || problem.status === 429) {
       this.patch(key, { state: 'failed', message: `${problem.title}. ${problem.detail ?? 'Try again.'}` });
@@ -232,14 +297,14 @@ export class PhotoCapture {
     }
   }
 
-  private loadThumbnail(key: number, id: string) {
+  private loadThumbnail(key: number, id: string, slotId = id) {
     this.api
       .thumbnail(id)
       .pipe(takeUntilDestroyed(this.destroyRef))
       .subscribe({
         next: (blob) => {
           const slot = this.slot(key);
-          if (!slot || slot.id !== id) return;
+          if (!slot || slot.id !== slotId) return;
           this.revoke(slot.preview);
           this.patch(key, { preview: this.urlFor(blob) });
         },
@@ -253,12 +318,18 @@ export class PhotoCapture {
   private adopt(ids: readonly string[]) {
     const slots = this.slots();
     const known = new Set(slots.flatMap((s) => [s.id, s.replaces]).filter((x): x is string => !!x));
-    const kept = slots.filter((s) => s.state !== 'done' || (s.id !== null && ids.includes(s.id)));
-    const added = ids.filter((id) => !known.has(id)).map((id) => this.newSlot({ id, state: 'done', progress: 100 }));
+    const kept = slots.filter((s) => (s.state !== 'done' && s.state !== 'on-device') || (s.id !== null && ids.includes(s.id)));
+    const added = ids.filter((id) => !known.has(id)).map((id) => {
+      const local = this.outbox.localPhoto(id);
+      return local
+        ? this.newSlot({ id, state: 'on-device', preview: this.urlFor(local.blob) })
+        : this.newSlot({ id, state: 'done', progress: 100 });
+    });
     if (kept.length === slots.length && added.length === 0) return;
     slots.filter((s) => !kept.includes(s)).forEach((s) => this.revoke(s.preview));
     this.slots.set([...kept, ...added]);
-    added.forEach((s) => this.loadThumbnail(s.key, s.id!));
+    // A photo kept here and since uploaded keeps its local id in the field; its thumbnail comes from the server.
+    added.filter((s) => s.state === 'done').forEach((s) => this.loadThumbnail(s.key, this.outbox.serverPhotoId(s.id!) ?? s.id!, s.id!));
   }
 
   /** The field's value: every stored photo, in the order shown (a retake in progress still counts its old photo). */
