@@ -1,7 +1,6 @@
 import assert from 'node:assert/strict';
 import { createHash, randomUUID } from 'node:crypto';
 import { before, describe, test } from 'node:test';
-import type { Express } from 'express';
 import request from 'supertest';
 import yauzl from 'yauzl';
 import { ProcedureVersion } from '../../api/modules/procedures/model';
@@ -11,6 +10,7 @@ import { AuditEvent } from '../../api/modules/signoff/model';
 import { db, expectProblem, makePerson, testApp } from '../support/api';
 import { binaryBody } from '../support/pdf';
 import { approve, fixture } from '../support/procedures';
+import { listRoutes } from '../support/routes';
 import { freshMachine, RecordMaker } from '../support/records';
 
 const app = testApp();
@@ -206,28 +206,9 @@ describe('the evidence pack', () => {
   });
 });
 
-/** Every route of the app with its method, found by walking Express's own router (so a new route is never missed). */
-function routesOf(app: Express): { method: string; path: string }[] {
-  type Layer = { route?: { path: string; methods: Record<string, boolean> }; handle?: { stack?: Layer[] }; rawPath?: string | string[] };
-  const out: { method: string; path: string }[] = [];
-  const walk = (stack: Layer[], prefix: string) => {
-    for (const layer of stack) {
-      if (layer.route) {
-        const path = (prefix + layer.route.path).replace(/(.)\/$/, '$1');
-        for (const method of Object.keys(layer.route.methods)) out.push({ method, path });
-      } else if (layer.handle?.stack) {
-        const path = typeof layer.rawPath === 'string' && layer.rawPath !== '/' ? layer.rawPath : '';
-        walk(layer.handle.stack, prefix + path);
-      }
-    }
-  };
-  walk((app as unknown as { router: { stack: Layer[] } }).router.stack, '');
-  return out;
-}
-
 describe('an auditor reads and never changes', () => {
   test('when an auditor calls every route that writes, then each one refuses with a 403 problem and nothing changes', async () => {
-    const writes = routesOf(app).filter((r) => ['post', 'put', 'patch', 'delete'].includes(r.method) && !r.path.startsWith('/api/auth/'));
+    const writes = listRoutes(app).filter((r) => ['POST', 'PUT', 'PATCH', 'DELETE'].includes(r.method) && !r.path.startsWith('/api/auth/'));
     assert.ok(writes.length >= 10, `found ${writes.length} write routes`);
     for (const path of ['/api/records/:id/sign-off', '/api/records/:id/addenda', '/api/photos', '/api/records']) {
       assert.ok(writes.some((w) => w.path === path), `the walk finds ${path}`);
@@ -249,8 +230,8 @@ describe('an auditor reads and never changes', () => {
     };
     const as = await maker.auth(auditor);
     for (const route of writes) {
-      const res = await request(app)[route.method as 'post'](fill(route.path)).set(as).send({ password: 'saw-demo-2026', reason: 'An auditor tries', text: 'An auditor tries to add this.' });
-      assert.equal(res.status, 403, `${route.method.toUpperCase()} ${route.path} answered ${res.status}: ${JSON.stringify(res.body)}`);
+      const res = await request(app)[route.method.toLowerCase() as 'post'](fill(route.path)).set(as).send({ password: 'saw-demo-2026', reason: 'An auditor tries', text: 'An auditor tries to add this.' });
+      assert.equal(res.status, 403, `${route.method} ${route.path} answered ${res.status}: ${JSON.stringify(res.body)}`);
       assert.match(String(res.headers['content-type']), /^application\/problem\+json/);
     }
     assert.deepEqual((await SetupRecord.findByPk(ids.a))!.toJSON(), before.record);

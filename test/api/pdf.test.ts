@@ -6,7 +6,7 @@ import { ObjectStore } from '../../api/lib/object-store';
 import type { Person } from '../../api/modules/people/repository';
 import { pdfKey } from '../../api/modules/pdf/service';
 import { SetupRecord } from '../../api/modules/records/model';
-import { AuditEvent, Signature } from '../../api/modules/signoff/model';
+import { AuditEvent, RecordReturn, Signature } from '../../api/modules/signoff/model';
 import { db, expectProblem, makePerson, PASSWORD, testApp, testConfig } from '../support/api';
 import { binaryBody, embeddedFontCount, imageCount, pdfText } from '../support/pdf';
 import { approve, fixture } from '../support/procedures';
@@ -180,6 +180,27 @@ describe('when rendering fails at sign-off', () => {
     const chunks: Buffer[] = [];
     for await (const c of stored!.body) chunks.push(c as Buffer);
     assert.ok(Buffer.concat(chunks).equals(pdf.body as Buffer), 'what was sent is what was kept');
+  });
+});
+
+describe('send-backs', () => {
+  test('when a record was sent back before it was signed, then the PDF shows who sent it back, when and why', async () => {
+    const id = await maker.ready({ performer: trainee, witness: competent });
+    const reason = 'Re-measure the tension; the gauge photo is blurred.';
+    await request(app).post(`/api/records/${id}/send-back`).set(await maker.auth(competent)).send({ reason }).expect(200);
+    await request(app)
+      .post(`/api/records/${id}/entries`)
+      .set(await maker.auth(trainee))
+      .send({ idempotencyKey: randomUUID(), stepId: 'tension', values: { reading: 810 } })
+      .expect(201);
+    await request(app).post(`/api/records/${id}/finish`).set(await maker.auth(trainee)).send({ password: PASSWORD }).expect(200);
+    await request(app).post(`/api/records/${id}/sign-off`).set(await maker.auth(competent)).send({ password: PASSWORD }).expect(200);
+    // One line of text whatever the wrapping: the reason may run onto a second line of its cell.
+    const text = (await pdfText((await download(id, auditor)).body as Buffer)).join('\n').replace(/\s+/g, ' ');
+    const [sentBack] = await RecordReturn.findAll({ where: { recordId: id } });
+    assert.ok(text.includes(`${inKolkata(sentBack!.returnedAt)} Pdf Competent ${reason}`), 'date, who and why on one row');
+    assert.ok(text.includes('Gauge reading 810 kgf 700–900 kgf Pass'), 'the corrected reading');
+    assert.ok(text.includes('Gauge reading 800 kgf 700–900 kgf Pass'), 'and the reading before the send-back');
   });
 });
 

@@ -307,7 +307,16 @@ let stack: Stack | undefined;
 const only = process.env['BENCH_ONLY']; // 'pdf' or 'archive' to run one half
 try {
   if (only !== 'archive') await benchPdf();
-  if (only === 'pdf') process.exit(0);
+  if (only !== 'pdf') await archivePart();
+} catch (err) {
+  console.error(`[setwright] the benchmark failed: ${(err as Error).stack ?? err}`);
+  process.exitCode = 1;
+} finally {
+  stack?.stop();
+  rmSync(tmp, { recursive: true, force: true });
+}
+
+async function archivePart() {
   stack = await startStack({
     pgDir: join(tmp, 'pg'),
     pgPort: await freePort(),
@@ -319,10 +328,4 @@ try {
   });
   await prepareDatabase(stack.env);
   await benchArchive(stack.env);
-} catch (err) {
-  console.error(`[setwright] the benchmark failed: ${(err as Error).stack ?? err}`);
-  process.exitCode = 1;
-} finally {
-  stack?.stop();
-  rmSync(tmp, { recursive: true, force: true });
 }
