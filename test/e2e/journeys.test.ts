@@ -217,7 +217,7 @@ describe('each role’s journey through Setwright in a real browser', () => {
     await page.getByRole('table', { name: 'Set-up records' }).waitFor();
     let answer = page.waitForResponse((r) => r.url().includes('/api/archive/records') && r.url().includes('machineId='));
     await page.locator('mat-select[formcontrolname=machineId]').click();
-    await page.getByRole('option', { name: stores.name }).click();
+    await page.getByRole('option', { name: new RegExp(stores.assetTag) }).click();
     assert.equal((await answer).status(), 200);
     answer = page.waitForResponse((r) => r.url().includes('/api/archive/records') && r.url().includes('procedure='));
     await page.locator('mat-select[formcontrolname=procedure]').click();

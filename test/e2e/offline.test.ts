@@ -67,7 +67,7 @@ describe('a trainee carries on at the saw while the workshop Wi-Fi is down', () 
     await serviceWorkerReady(page);
 
     await page.getByRole('link', { name: 'Machines' }).first().click();
-    await page.getByRole('link', { name: 'Bay 2 bandsaw' }).click();
+    await page.getByRole('link', { name: 'Bay 2 bandsaw', exact: true }).click();
     await page.getByRole('button', { name: 'Start Removing and fitting a blade' }).click();
     await page.waitForURL(/\/records\//);
     const recordId = page.url().split('/records/')[1]!;
@@ -149,7 +149,7 @@ describe('a trainee carries on at the saw while the workshop Wi-Fi is down', () 
 
     // Opened once with a connection: the machine is in the service worker's copy, its procedures on the tablet.
     await page.getByRole('link', { name: 'Machines' }).first().click();
-    await page.getByRole('link', { name: 'Bay 2 bandsaw' }).click();
+    await page.getByRole('link', { name: 'Bay 2 bandsaw', exact: true }).click();
     await page.getByRole('button', { name: 'Start Removing and fitting a blade' }).waitFor();
     await until(page, 'the blade change is kept on the tablet', async () => {
       const dbs = await indexedDB.databases();

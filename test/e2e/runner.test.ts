@@ -44,7 +44,7 @@ describe('a trainee runs the blade change at the saw, and a competent person sig
     await signInThroughPage(page, base, trainee.email, DEMO_PASSWORD);
 
     await page.getByRole('link', { name: 'Machines' }).first().click();
-    await page.getByRole('link', { name: 'Bay 2 bandsaw' }).click();
+    await page.getByRole('link', { name: 'Bay 2 bandsaw', exact: true }).click();
     await page.getByRole('button', { name: 'Start Removing and fitting a blade' }).click();
     await page.waitForURL(/\/records\//);
     const recordId = page.url().split('/records/')[1]!;
