@@ -40,7 +40,7 @@ import { PdfService } from './modules/pdf/service';
 import { bladesRouter } from './modules/blades/router';
 import { BladeService, currentBlade } from './modules/blades/service';
 import { competenciesRouter } from './modules/competencies/router';
-import { CompetencyService } from './modules/competencies/service';
+import { CompetencyService, listExpiringAuthorisations, workshopDate } from './modules/competencies/service';
 
 export interface AppDeps {
   config: Config;
@@ -157,6 +157,15 @@ export function createApp({
   signOff.whenSignedOff((id) => blades.recordFittingAfterSignOff(id));
   api.use('/blades', signedIn, bladesRouter(blades));
   const competencies = new CompetencyService(sequelize, auth, config.WORKSHOP_TIME_ZONE, now);
+  // The daily job also reminds people whose authorisation ends in 30 or 7 days.
+  notifier.useExpiringAuthorisations(async () =>
+    (await listExpiringAuthorisations(sequelize, workshopDate(config.WORKSHOP_TIME_ZONE, now()))).map((a) => ({
+      personId: a.person.id,
+      procedureTitle: a.procedureTitle,
+      expiresOn: a.expiresOn,
+      daysLeft: a.daysLeft,
+    })),
+  );
   api.use('/competencies', signedIn, competenciesRouter(competencies, config.WORKSHOP_TIME_ZONE));
   api.use('/records', signedIn, recordsRouter(records, config));
   api.use('/records', signedIn, signOffRouter(signOff, records));

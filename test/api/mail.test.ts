@@ -263,6 +263,22 @@ describe('e-mail through the outbox', () => {
     }
   });
 
+  test('when authorisations end in 30 or 7 days, then their holders are reminded once on each of those days; other days send nothing', async () => {
+    const before = await OutboxMessage.count({ where: { kind: 'authorisation_expiring', toAddress: trainee.email } });
+    const ids = await notifier.sendExpiringReminders([
+      { personId: trainee.id, procedureTitle: 'Tensioning the blade', expiresOn: '2027-01-01', daysLeft: 30 },
+      { personId: trainee.id, procedureTitle: 'Squaring the blade', expiresOn: '2026-12-14', daysLeft: 12 },
+      { personId: trainee.id, procedureTitle: 'Tracking the blade', expiresOn: '2026-12-09', daysLeft: 7 },
+    ]);
+    assert.equal(ids.length, 2);
+    const rows = await OutboxMessage.findAll({ where: { kind: 'authorisation_expiring', toAddress: trainee.email }, order: [['createdAt', 'ASC']] });
+    assert.equal(rows.length, before + 2);
+    const bodies = rows.slice(-2).map((r) => r.textBody).join('\n');
+    assert.match(bodies, /Tensioning the blade/);
+    assert.match(bodies, /Tracking the blade/);
+    assert.doesNotMatch(bodies, /Squaring the blade/);
+  });
+
   test('when a message has markup in what people typed, then the HTML part shows it as text', async () => {
     const ids = await notifier.sendWeeklyDue([{ machine: { ...machine.get(), name: '<b>Saw</b> & "bay"' }, procedureTitle: 'Check <script>', dueOn: '2026-05-13' }]);
     await waitFor('sent', async () => (await OutboxMessage.findAll({ where: { id: ids } })).every((r) => r.status === 'sent'));

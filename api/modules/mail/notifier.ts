@@ -21,6 +21,9 @@ export interface TaggedOutMachine {
   location?: string | null;
 }
 
+/** Authorisations ending soon: who holds them, on what, and how many days are left. */
+export type ExpiringSource = () => Promise<{ personId: string; procedureTitle: string; expiresOn: string; daysLeft: number }[]>;
+
 /** Where the daily "due this week" e-mail gets its list; the schedules module supplies it with useDueThisWeek(). */
 export type DueThisWeekSource = () => Promise<DueItem[]>;
 
@@ -40,6 +43,7 @@ export type DueThisWeekSource = () => Promise<DueItem[]>;
  */
 export class Notifier {
   private dueSource: DueThisWeekSource = async () => [];
+  private expiringSource: ExpiringSource = async () => [];
 
   constructor(
     private readonly outbox: Outbox,
@@ -48,7 +52,24 @@ export class Notifier {
   ) {
     void outbox.schedule('due-this-week', config.MAIL_DUE_CRON, async () => {
       await this.sendWeeklyDue(await this.dueSource());
+      await this.sendExpiringReminders(await this.expiringSource());
     });
+  }
+
+  /** The authorisations behind the daily reminder; the competencies module supplies them. */
+  useExpiringAuthorisations(source: ExpiringSource) {
+    this.expiringSource = source;
+  }
+
+  /**
+   * Remind each holder once 30 days before their authorisation ends and again 7 days before
+   * (the daily job runs once a day, so each day-count is met once).
+   */
+  async sendExpiringReminders(items: { personId: string; procedureTitle: string; expiresOn: string; daysLeft: number }[]): Promise<string[]> {
+    const due = items.filter((i) => i.daysLeft === 30 || i.daysLeft === 7);
+    const sent: string[] = [];
+    for (const i of due) sent.push(...(await this.notifyAuthorisationExpiring({ person: { id: i.personId }, procedureTitle: i.procedureTitle, expiresOn: i.expiresOn })));
+    return sent;
   }
 
   /** The list behind the daily "due this week" e-mail. */
