@@ -1,8 +1,9 @@
-import { pino, type Logger } from 'pino';
+import { pino, type DestinationStream, type Logger } from 'pino';
 
-/** pino to stdout; secrets are redacted wherever they might appear. */
-export function createLogger(level: string): Logger {
-  return pino({
+/** pino to stdout (or a given stream); secrets are redacted wherever they might appear. */
+export function createLogger(level: string, destination?: DestinationStream): Logger {
+  return pino(
+    {
     level,
     redact: {
       paths: [
@@ -16,5 +17,7 @@ export function createLogger(level: string): Logger {
       ],
       censor: '[hidden]',
     },
-  });
+    },
+    destination,
+  );
 }

@@ -8,6 +8,8 @@ import { hashRefreshToken } from '../../api/modules/auth/tokens';
 import { User } from '../../api/modules/people/model';
 import { setActive } from '../../api/modules/people/repository';
 import { DEMO_PEOPLE } from '../../api/db/seed';
+import { createApp } from '../../api/app';
+import { createLogger } from '../../api/lib/logger';
 import { db, expectProblem, makePerson, PASSWORD, signIn, testApp, testConfig } from '../support/api';
 
 describe('signing in', () => {
@@ -172,5 +174,24 @@ describe('refresh and sign-out', () => {
     assert.match(String(res.headers['set-cookie']), /sw_refresh=;/);
     expectProblem(await request(app).post('/api/auth/refresh').set('cookie', cookie), 401);
     assert.equal(await RefreshToken.count({ where: { userId: person.id, revokedAt: null } }), 0);
+  });
+});
+
+describe('secrets in the logs', () => {
+  test('when people sign in, fail to, and use their tokens with request logging on, then no password, hash or token reaches the log', async () => {
+    const lines: string[] = [];
+    const logger = createLogger('debug', { write: (line: string) => void lines.push(line) });
+    const config = testConfig({ NODE_ENV: 'development', LOG_LEVEL: 'debug' });
+    const app = createApp({ config, sequelize: db(), logger });
+    const person = await makePerson(['trainee'], 'Log Watcher');
+    await request(app).post('/api/auth/login').send({ email: person.email, password: 'a-wrong-password-123' }).expect(401);
+    const ok = await request(app).post('/api/auth/login').send({ email: person.email, password: PASSWORD }).expect(200);
+    await request(app).get('/api/people/me').set('authorization', `Bearer ${ok.body.accessToken}`).expect(200);
+    const log = lines.join('');
+    assert.ok(lines.length >= 3, 'requests were logged');
+    assert.ok(!log.includes(PASSWORD) && !log.includes('a-wrong-password-123'), 'no password');
+    assert.ok(!log.includes(ok.body.accessToken), 'no access token');
+    assert.ok(!/\$2[aby]\$/.test(log), 'no bcrypt hash');
+    assert.ok(!/sw_refresh=/.test(log), 'no refresh cookie');
   });
 });
