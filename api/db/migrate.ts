@@ -9,6 +9,8 @@ import * as m0006 from './migrations/0006-archive-indexes';
 import * as m0007 from './migrations/0007-outbox-and-invitations';
 import * as m0008 from './migrations/0008-schedules';
 import * as m0009 from './migrations/0009-blades-and-competencies';
+import * as m0010 from './migrations/0010-save-step-function';
+import * as m0011 from './migrations/0011-signed-run-indexes';
 
 export interface Migration {
   up: MigrationFn<QueryInterface>;
@@ -26,6 +28,8 @@ const MIGRATIONS: [string, Migration][] = [
   ['0007-outbox-and-invitations', m0007],
   ['0008-schedules', m0008],
   ['0009-blades-and-competencies', m0009],
+  ['0010-save-step-function', m0010],
+  ['0011-signed-run-indexes', m0011],
 ];
 
 export function createMigrator(sequelize: Sequelize) {

@@ -4,6 +4,7 @@ import { ROOT } from '../../scripts/lib/stack';
 
 const steps: [string, string[]][] = [
   ['step-entry throughput against a bare Express echo', ['tsx', 'test/bench/throughput.ts']],
+  ['per-request time, CPU and SQL statements of the busiest routes', ['tsx', 'test/bench/statements.ts']],
   ['photo ingest against bare sharp', ['tsx', 'test/bench/photo-ingest.ts']],
   ['PDF against bare pdfkit, and the archive query at 100,000 records', ['tsx', 'test/bench/pdf-and-archive.ts']],
   ['offline queue drain', ['tsx', 'test/bench/offline-drain.ts']],

@@ -180,7 +180,7 @@ export class Notifier {
     const record = await SetupRecord.findByPk(recordId, {
       include: [
         { model: Machine, as: 'machine' },
-        { model: ProcedureVersion, as: 'procedureVersion' },
+        { model: ProcedureVersion, as: 'procedureVersion', attributes: { exclude: ['body'] } },
         { model: User, as: 'startedBy' },
       ],
     });

@@ -1,4 +1,4 @@
-import type { Transaction } from 'sequelize';
+import { QueryTypes, type Transaction } from 'sequelize';
 import type { Role } from '../../contracts/roles';
 import { RoleAssignment, User } from './model';
 
@@ -33,11 +33,21 @@ export async function findPersonByEmail(email: string): Promise<PersonWithHash |
   return user ? toPerson(user) : null;
 }
 
+/**
+ * One person with their roles, in one lean statement: every signed-in request asks this (so a
+ * deactivated person's tokens stop at once), so it skips building model instances.
+ */
 export async function findPersonById(id: string): Promise<Person | null> {
-  const user = await User.findByPk(id, withRoles);
-  if (!user) return null;
-  const { passwordHash: _hidden, ...person } = toPerson(user);
-  return person;
+  const rows = await User.sequelize!.query<{ id: string; email: string; display_name: string; active: boolean; roles: Role[] }>(
+    `SELECT u.id, u.email, u.display_name, u.active,
+            coalesce(array_agg(r.role::text ORDER BY r.role::text COLLATE "C") FILTER (WHERE r.role IS NOT NULL), '{}') AS roles
+       FROM users u LEFT JOIN role_assignments r ON r.user_id = u.id
+      WHERE u.id = $1
+      GROUP BY u.id`,
+    { bind: [id], type: QueryTypes.SELECT },
+  );
+  const row = rows[0];
+  return row ? { id: row.id, email: row.email, displayName: row.display_name, active: row.active, roles: row.roles } : null;
 }
 
 /** Create a person with roles, or bring an existing one (by email) up to the given roles. */

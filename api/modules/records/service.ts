@@ -1,13 +1,13 @@
 import { randomUUID } from 'node:crypto';
-import { Op, UniqueConstraintError, type Sequelize, type Transaction } from 'sequelize';
+import { QueryTypes, UniqueConstraintError, type Sequelize } from 'sequelize';
 import { evaluateStep } from '../../../procedures/engine';
-import type { RecordDetail, RecordSummary, StartRecordRequest, StepEntryRequest, StepEntryView } from '../../contracts/records';
+import type { RecordDetail, RecordStatus, RecordSummary, StartRecordRequest, StepEntryRequest, StepEntryView } from '../../contracts/records';
 import { AppError } from '../../lib/errors';
 import type { AuthService } from '../auth/service';
 import { Machine } from '../machines/model';
 import { User } from '../people/model';
 import type { Person } from '../people/repository';
-import { Photo } from '../photos/model';
+import { procedureBody } from '../procedures/cache';
 import { ProcedureVersion } from '../procedures/model';
 import { audit } from '../../lib/audit';
 import { Signature } from '../signoff/model';
@@ -21,7 +21,7 @@ const READERS = ['competent_person', 'auditor', 'workshop_admin'] as const;
 const withParts = {
   include: [
     { model: Machine, as: 'machine' },
-    { model: ProcedureVersion, as: 'procedureVersion' },
+    { model: ProcedureVersion, as: 'procedureVersion', attributes: { exclude: ['body'] } },
     { model: User, as: 'startedBy' },
   ],
 };
@@ -32,9 +32,25 @@ const entryPeople = {
   ],
 };
 
+interface RecordFacts {
+  startedById: string;
+  procedureVersionId: string;
+  machineSpec: Record<string, unknown>;
+}
+const KNOWN_RECORDS = 5000;
+
+/** Only the person who started a record adds to it, and only while it is underway or returned. */
+function assertWritable(person: Person, startedById: string, status: RecordStatus) {
+  if (startedById !== person.id) throw AppError.forbidden('Only the person who started this record can work on it.');
+  if (status !== 'underway' && status !== 'returned') {
+    throw AppError.conflict(`This record is ${status.replace(/_/g, ' ')} and can no longer be changed.`);
+  }
+}
+
 /** Set-up records: start one on a machine, save each step as it is done, finish it for sign-off. */
 export class RecordService {
   private signOff?: SignOffService;
+  private readonly knownRecords = new Map<string, RecordFacts>();
 
   constructor(
     private readonly sequelize: Sequelize,
@@ -123,14 +139,18 @@ export class RecordService {
    * never trusts the client's figures. A repeated idempotency key returns the entry already saved.
    */
   async saveStep(person: Person, recordId: string, req: StepEntryRequest): Promise<{ entry: StepEntryView; created: boolean }> {
-    const replay = await this.replay(recordId, req);
-    if (replay) return { entry: replay, created: false };
-
-    const record = await this.writable(person, recordId);
-    const step = record.procedureVersion!.body.steps.find((s) => s.id === req.stepId);
+    const facts = await this.facts(recordId);
+    if (!facts) {
+      const replay = await this.replay(recordId, req);
+      if (replay) return { entry: replay, created: false };
+      throw AppError.notFound('There is no record with that id.');
+    }
+    if (facts.startedById !== person.id) throw AppError.forbidden('Only the person who started this record can work on it.');
+    const body = await procedureBody(facts.procedureVersionId);
+    const step = body.steps.find((s) => s.id === req.stepId);
     if (!step) throw new AppError(422, 'unknown-step', 'No such step', 'This procedure has no step with that id.', [{ pointer: '#/stepId', detail: 'Not a step of this procedure.' }]);
     const values = checkValues(step, req.values);
-    const evaluation = evaluateStep(step, values, record.machineSpec);
+    const evaluation = evaluateStep(step, values, facts.machineSpec);
     if (!evaluation.complete) {
       throw new AppError(422, 'step-incomplete', 'The step is not finished', 'Fill in every reading and answer before saving the step.', evaluation.missing.map((id) => ({
         pointer: `#/values/${id}`,
@@ -146,47 +166,68 @@ export class RecordService {
     const witness = step.powered ? await this.witnessFor(person, req) : null;
     const photoIds = step.inputs.filter((i) => i.type === 'photo').flatMap((i) => (values[i.id] as string[] | undefined) ?? []);
 
+    // One statement does the rest (see migration 0010): replay check, the record's state, the
+    // per-step lock, photos, the entry, the audit rows and the witness's signature.
+    const id = randomUUID();
+    const at = new Date();
+    let attempt: number;
     try {
-      const entry = await this.sequelize.transaction(async (transaction) => {
-        // Attempts of one step are numbered one at a time; other steps and records go on in parallel.
-        await this.sequelize.query('SELECT pg_advisory_xact_lock(hashtext(:key))', { replacements: { key: `${record.id}/${step.id}` }, transaction });
-        await this.attachPhotos(person, record.id, photoIds, transaction);
-        const last = (await StepEntry.max('attempt', { where: { recordId: record.id, stepId: step.id }, transaction })) as number | null;
-        const created = await StepEntry.create(
-          {
-            recordId: record.id,
-            stepId: step.id,
-            attempt: (last ?? 0) + 1,
-            values,
-            evaluation,
-            outcome,
-            correctiveNote: req.correctiveNote ?? null,
-            enteredById: person.id,
-            witnessedById: witness?.id ?? null,
-            witnessedAt: witness ? new Date() : null,
-            idempotencyKey: req.idempotencyKey,
-          },
-          { transaction },
-        );
-        if (record.status === 'returned') await SetupRecord.update({ status: 'underway' }, { where: { id: record.id }, transaction });
-        await audit('step.saved', person.id, record.id, { step: step.id, attempt: created.attempt, outcome }, transaction);
-        if (witness && witness.id !== person.id) {
-          await Signature.create(
-            { recordId: record.id, signerId: witness.id, meaning: 'witnessed', printedName: witness.displayName, signedAt: created.witnessedAt!, stepId: step.id, entryId: created.id },
-            { transaction },
-          );
-          await audit('step.witnessed', witness.id, record.id, { step: step.id, attempt: created.attempt }, transaction);
-        }
-        return created;
-      });
-      return { entry: entryView((await StepEntry.findByPk(entry.id, entryPeople))!), created: true };
+      const [row] = await this.sequelize.query<{ attempt: number }>(
+        'SELECT setwright_save_step($1, $2, $3, $4, $5, $6, $7, $8, $9, $10, $11, $12, $13) AS attempt',
+        {
+          bind: [id, recordId, step.id, JSON.stringify(values), JSON.stringify(evaluation), outcome, req.correctiveNote ?? null, person.id, witness?.id ?? null, witness?.displayName ?? null, at, req.idempotencyKey, photoIds],
+          type: QueryTypes.SELECT,
+        },
+      );
+      attempt = row!.attempt;
     } catch (err) {
-      if (err instanceof UniqueConstraintError) {
-        const again = await this.replay(recordId, req);
-        if (again) return { entry: again, created: false };
-      }
-      throw err;
+      const code = (err as { original?: { code?: string; message?: string } }).original;
+      if (err instanceof UniqueConstraintError || code?.code === '23505') attempt = 0;
+      else if (code?.code === 'SW404') throw AppError.notFound('There is no record with that id.');
+      else if (code?.code === 'SW403') throw AppError.forbidden('Only the person who started this record can work on it.');
+      else if (code?.code === 'SW409') throw AppError.conflict(`This record is ${String(code.message).replace(/_/g, ' ')} and can no longer be changed.`);
+      else if (code?.code === 'SW422') throw AppError.badRequest('A photo cannot be used here.', [{ pointer: '#/values', detail: `Photo ${code.message} is not one of your unattached photos.` }]);
+      else throw err;
     }
+    if (attempt === 0) {
+      // The idempotency key was used already: answer with the entry saved the first time.
+      const replay = await this.replay(recordId, req);
+      if (replay) return { entry: replay, created: false };
+      throw AppError.conflict('That idempotency key was already used.');
+    }
+    const entry: StepEntryView = {
+      id,
+      stepId: step.id,
+      attempt,
+      values,
+      evaluation,
+      outcome,
+      correctiveNote: req.correctiveNote ?? null,
+      enteredBy: { id: person.id, displayName: person.displayName },
+      witnessedBy: witness ? { id: witness.id, displayName: witness.displayName } : null,
+      witnessedAt: witness ? at.toISOString() : null,
+      idempotencyKey: req.idempotencyKey,
+      createdAt: at.toISOString(),
+    };
+    return { entry, created: true };
+  }
+
+  /**
+   * What never changes about a record once started (who started it, its pinned procedure version and
+   * the machine's specification as it stood), kept per process; null when there is no such record.
+   */
+  private async facts(recordId: string): Promise<RecordFacts | null> {
+    const kept = this.knownRecords.get(recordId);
+    if (kept) return kept;
+    const [row] = await this.sequelize.query<{ started_by_id: string; procedure_version_id: string; machine_spec: Record<string, unknown> }>(
+      'SELECT started_by_id, procedure_version_id, machine_spec FROM setup_records WHERE id = $1',
+      { bind: [recordId], type: QueryTypes.SELECT },
+    );
+    if (!row) return null;
+    const facts: RecordFacts = { startedById: row.started_by_id, procedureVersionId: row.procedure_version_id, machineSpec: row.machine_spec };
+    if (this.knownRecords.size >= KNOWN_RECORDS) this.knownRecords.delete(this.knownRecords.keys().next().value!);
+    this.knownRecords.set(recordId, facts);
+    return facts;
   }
 
   /**
@@ -197,7 +238,7 @@ export class RecordService {
     const record = await this.writable(person, recordId);
     const entries = await StepEntry.findAll({ where: { recordId }, order: [['attempt', 'ASC']] });
     const latest = new Map(entries.map((e) => [e.stepId, e]));
-    const steps = record.procedureVersion!.body.steps;
+    const steps = (await procedureBody(record.procedureVersionId)).steps;
     const undone = steps.filter((s) => !latest.has(s.id));
     if (undone.length) {
       throw new AppError(409, 'steps-not-done', 'Some steps are not done', `Finish these steps first: ${undone.map((s) => s.title).join('; ')}.`, undefined, {
@@ -271,17 +312,6 @@ export class RecordService {
     return witness;
   }
 
-  private async attachPhotos(person: Person, recordId: string, ids: string[], transaction: Transaction) {
-    if (!ids.length) return;
-    const photos = await Photo.findAll({ where: { id: { [Op.in]: ids } }, transaction, lock: transaction.LOCK.UPDATE });
-    for (const id of ids) {
-      const photo = photos.find((p) => p.id === id);
-      const ok = photo && photo.ownerId === person.id && (photo.attachedRecordId === null || photo.attachedRecordId === recordId);
-      if (!ok) throw AppError.badRequest('A photo cannot be used here.', [{ pointer: '#/values', detail: `Photo ${id} is not one of your unattached photos.` }]);
-    }
-    await Photo.update({ attachedRecordId: recordId, attachedAt: new Date() }, { where: { id: { [Op.in]: ids }, attachedRecordId: null }, transaction });
-  }
-
   private async loaded(id: string): Promise<SetupRecord> {
     const record = await SetupRecord.findByPk(id, withParts);
     if (!record) throw AppError.notFound('There is no record with that id.');
@@ -299,15 +329,12 @@ export class RecordService {
   /** Only the person who started a record adds to it, and only while it is underway or returned. */
   private async writable(person: Person, id: string): Promise<SetupRecord> {
     const record = await this.loaded(id);
-    if (record.startedById !== person.id) throw AppError.forbidden('Only the person who started this record can work on it.');
-    if (record.status !== 'underway' && record.status !== 'returned') {
-      throw AppError.conflict(`This record is ${record.status.replace(/_/g, ' ')} and can no longer be changed.`);
-    }
+    assertWritable(person, record.startedById, record.status);
     return record;
   }
 
   private async detail(record: SetupRecord): Promise<RecordDetail> {
     const entries = await StepEntry.findAll({ where: { recordId: record.id }, ...entryPeople, order: [['createdAt', 'ASC'], ['attempt', 'ASC']] });
-    return recordDetail(record, entries);
+    return recordDetail(record, entries, await procedureBody(record.procedureVersionId));
   }
 }

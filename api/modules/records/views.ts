@@ -1,4 +1,5 @@
 import type { RecordDetail, RecordSummary, StepEntryView } from '../../contracts/records';
+import type { Procedure } from '../../../procedures/schema';
 import type { User } from '../people/model';
 import type { SetupRecord, StepEntry } from './model';
 
@@ -35,10 +36,10 @@ export function recordSummary(r: SetupRecord): RecordSummary {
   };
 }
 
-export function recordDetail(r: SetupRecord, entries: StepEntry[]): RecordDetail {
+export function recordDetail(r: SetupRecord, entries: StepEntry[], body: Procedure): RecordDetail {
   return {
     ...recordSummary(r),
-    procedureBody: r.procedureVersion!.body,
+    procedureBody: body,
     machineSpec: r.machineSpec,
     entries: entries.map(entryView),
     voidReason: r.voidReason,

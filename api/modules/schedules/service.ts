@@ -59,7 +59,13 @@ export class MachineStatusService {
     return this.opts.now();
   }
 
-  /** Derive every machine named (or all of them). */
+  /**
+   * Derive every machine named (or all of them). Only the signed records that can matter are read,
+   * each found through an index rather than by scanning a machine's history: the latest pass of each
+   * procedure; the failures no later pass has cleared (these tag a machine out); and, for each
+   * schedule, the first failure and the first blade change after its procedure's latest pass (the
+   * only ones that can set its due date).
+   */
   async derive(machineIds?: string[]): Promise<Map<string, DerivedMachine>> {
     const machines = await Machine.findAll({ where: machineIds ? { id: { [Op.in]: machineIds } } : {}, attributes: ['id', 'createdAt', 'location'] });
     const ids = machines.map((m) => m.id);
@@ -67,26 +73,69 @@ export class MachineStatusService {
     if (!ids.length) return out;
     const facts = new Map<string, MachineFacts>(ids.map((id) => [id, { lastPass: new Map(), failed: [], bladeChanges: [], placements: [], schedules: [] }]));
 
-    const signedRuns = `
-      FROM setup_records r JOIN procedure_versions pv ON pv.id = r.procedure_version_id
-      WHERE r.status = 'signed_off' AND r.machine_id IN (:ids)`;
-    const lastPasses = await this.sequelize.query<RunRow>(
-      `SELECT DISTINCT ON (r.machine_id, pv.key) r.id AS record_id, r.machine_id, pv.key, pv.title, r.result,
-              COALESCE(r.finished_at, r.signed_at) AS done_at, r.signed_at
-       ${signedRuns} AND r.result = 'passed'
-       ORDER BY r.machine_id, pv.key, COALESCE(r.finished_at, r.signed_at) DESC, r.signed_at DESC`,
-      { replacements: { ids }, type: QueryTypes.SELECT },
+    // Each LATERAL below is one short range of the setup_records_signed_* indexes (migration 0011).
+    const runs = await this.sequelize.query<RunRow & { kind: 'pass' | 'failure' | 'blade_change' }>(
+      `WITH m AS (SELECT unnest($1::uuid[]) AS machine_id),
+       v AS (SELECT id, key FROM procedure_versions),
+       run AS NOT MATERIALIZED (
+         SELECT r.id, r.machine_id, r.procedure_version_id, r.result, COALESCE(r.finished_at, r.signed_at) AS done_at, r.signed_at
+           FROM setup_records r WHERE r.status = 'signed_off'
+       ),
+       last_pass AS (
+         SELECT DISTINCT ON (m.machine_id, v.key) m.machine_id, v.key, lp.*
+           FROM m CROSS JOIN v
+           JOIN LATERAL (
+             SELECT run.id, run.procedure_version_id, run.done_at, run.signed_at FROM run
+              WHERE run.machine_id = m.machine_id AND run.procedure_version_id = v.id AND run.result = 'passed'
+              ORDER BY run.done_at DESC, run.signed_at DESC LIMIT 1
+           ) lp ON true
+          ORDER BY m.machine_id, v.key, lp.done_at DESC, lp.signed_at DESC
+       ),
+       standing AS (
+         SELECT f.* FROM m CROSS JOIN v
+           LEFT JOIN last_pass lp ON lp.machine_id = m.machine_id AND lp.key = v.key
+           JOIN LATERAL (
+             SELECT run.* FROM run
+              WHERE run.machine_id = m.machine_id AND run.procedure_version_id = v.id AND run.result = 'failed'
+                AND run.done_at >= COALESCE(lp.done_at, '-infinity')
+           ) f ON true
+       ),
+       since AS (
+         SELECT s.machine_id, COALESCE(lp.done_at, '-infinity') AS after
+           FROM machine_schedules s JOIN m ON m.machine_id = s.machine_id
+           LEFT JOIN last_pass lp ON lp.machine_id = s.machine_id AND lp.key = s.procedure_key
+       ),
+       first_failure AS (
+         SELECT ff.* FROM since JOIN LATERAL (
+           SELECT run.* FROM run WHERE run.machine_id = since.machine_id AND run.result = 'failed' AND run.done_at > since.after
+            ORDER BY run.done_at LIMIT 1
+         ) ff ON true
+       ),
+       first_change AS (
+         SELECT fc.* FROM since
+           CROSS JOIN (SELECT id FROM v WHERE key = $2) bc
+           CROSS JOIN (VALUES ('passed'::enum_setup_records_result), ('failed')) AS res(result)
+           JOIN LATERAL (
+             SELECT run.* FROM run
+              WHERE run.machine_id = since.machine_id AND run.procedure_version_id = bc.id AND run.result = res.result AND run.done_at > since.after
+              ORDER BY run.done_at LIMIT 1
+           ) fc ON true
+       ),
+       picked AS (
+         SELECT 'pass' AS kind, id, machine_id, procedure_version_id, done_at, signed_at, 'passed' AS result FROM last_pass
+         UNION SELECT 'failure', id, machine_id, procedure_version_id, done_at, signed_at, 'failed' FROM standing
+         UNION SELECT 'failure', id, machine_id, procedure_version_id, done_at, signed_at, 'failed' FROM first_failure
+         UNION SELECT 'blade_change', id, machine_id, procedure_version_id, done_at, signed_at, result::text FROM first_change
+       )
+       SELECT p.kind, p.id AS record_id, p.machine_id, pv.key, pv.title, p.result, p.done_at, p.signed_at
+         FROM picked p JOIN procedure_versions pv ON pv.id = p.procedure_version_id`,
+      { bind: [ids, BLADE_CHANGE_KEY], type: QueryTypes.SELECT },
     );
-    for (const row of lastPasses) facts.get(row.machine_id)!.lastPass.set(row.key, toRun(row));
-    const events = await this.sequelize.query<RunRow>(
-      `SELECT r.id AS record_id, r.machine_id, pv.key, pv.title, r.result, COALESCE(r.finished_at, r.signed_at) AS done_at, r.signed_at
-       ${signedRuns} AND (r.result = 'failed' OR pv.key = :bladeChange)`,
-      { replacements: { ids, bladeChange: BLADE_CHANGE_KEY }, type: QueryTypes.SELECT },
-    );
-    for (const row of events) {
+    for (const row of runs) {
       const f = facts.get(row.machine_id)!;
-      if (row.result === 'failed') f.failed.push(toRun(row));
-      if (row.key === BLADE_CHANGE_KEY) f.bladeChanges.push(toRun(row));
+      if (row.kind === 'pass') f.lastPass.set(row.key, toRun(row));
+      else if (row.kind === 'failure') f.failed.push(toRun(row));
+      else f.bladeChanges.push(toRun(row));
     }
 
     const moves = await MachineEvent.findAll({ where: { machineId: { [Op.in]: ids }, kind: { [Op.in]: ['registered', 'relocated'] } } });
@@ -177,7 +226,7 @@ export class MachineStatusService {
     const record = await SetupRecord.findByPk(recordId, {
       include: [
         { model: Machine, as: 'machine' },
-        { model: ProcedureVersion, as: 'procedureVersion' },
+        { model: ProcedureVersion, as: 'procedureVersion', attributes: { exclude: ['body'] } },
         { model: User, as: 'startedBy' },
       ],
     });

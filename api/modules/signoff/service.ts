@@ -23,7 +23,7 @@ import { AuditEvent, RecordAddendum, RecordReturn, Signature } from './model';
 const withParts = {
   include: [
     { model: Machine, as: 'machine' },
-    { model: ProcedureVersion, as: 'procedureVersion' },
+    { model: ProcedureVersion, as: 'procedureVersion', attributes: { exclude: ['body'] } },
     { model: User, as: 'startedBy' },
   ],
 };
