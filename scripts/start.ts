@@ -2,6 +2,7 @@
 import { join } from 'node:path';
 import { DEMO_PASSWORD, DEMO_PEOPLE } from '../api/db/seed';
 import { ROLE_LABELS } from '../api/contracts/roles';
+import { clientBuildIsCurrent, clientInputsHash, markClientBuilt } from './lib/client-build';
 import { runCommand } from './lib/run';
 import { LOCAL_S3_DIR, localPgDir, localSecrets, prepareDatabase, ROOT, say, startStack } from './lib/stack';
 
@@ -32,9 +33,15 @@ async function shutdown(code: number, api?: { stop(): Promise<void> }) {
 try {
   await prepareDatabase(stack.env);
   if (process.env['SETWRIGHT_SKIP_BUILD'] !== '1') {
-    say('building the client app (production)…');
-    const build = await runCommand('npx', ['ng', 'build', '--progress=false']);
-    if (build.code !== 0) throw new Error('the client build failed');
+    const inputs = clientInputsHash();
+    if (process.env['SETWRIGHT_FORCE_BUILD'] !== '1' && clientBuildIsCurrent(inputs)) {
+      say('the client app is already built from these sources (SETWRIGHT_FORCE_BUILD=1 builds it again)');
+    } else {
+      say('building the client app (production)…');
+      const build = await runCommand('npx', ['ng', 'build', '--progress=false']);
+      if (build.code !== 0) throw new Error('the client build failed');
+      markClientBuilt(inputs);
+    }
   }
   const { startApi } = await import('../api/main');
   const { loadConfig } = await import('../api/config');

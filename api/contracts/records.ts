@@ -80,10 +80,14 @@ export interface RecordSummary {
   finishedAt: string | null;
 }
 
-export interface RecordDetail extends RecordSummary {
-  procedureBody: Procedure;
+/** A record as it stands: GET /api/records/:id?without=procedure answers this (the procedure's body is immutable per version). */
+export interface RecordState extends RecordSummary {
   machineSpec: Record<string, unknown>;
   /** Every attempt, oldest first; the latest attempt of a step is the one that counts. */
   entries: StepEntryView[];
   voidReason: string | null;
+}
+
+export interface RecordDetail extends RecordState {
+  procedureBody: Procedure;
 }

@@ -109,6 +109,20 @@ describe('running a record', () => {
     assert.equal(rows[0]!.enteredById, trainee.id);
   });
 
+  test('when a record is read without its procedure, then it answers the same state and entries and no procedure body', async () => {
+    const record = await startRecord();
+    const saved = await request(app).post(`/api/records/${record.id}/entries`).set(as('trainee')).send(entry('isolate', { lock: 'Lock 8' })).expect(201);
+    const full = await request(app).get(`/api/records/${record.id}`).set(as('trainee')).expect(200);
+    const lean = await request(app).get(`/api/records/${record.id}?without=procedure`).set(as('trainee')).expect(200);
+    assert.equal(lean.body.procedureBody, undefined);
+    const { procedureBody, ...state } = full.body;
+    assert.ok(procedureBody.steps.length > 0);
+    assert.deepEqual(lean.body, state);
+    assert.deepEqual(lean.body.entries, [saved.body], 'the entry reads back exactly as it was answered when saved');
+    const refused = await request(app).get(`/api/records/${record.id}?without=entries`).set(as('trainee')).expect(400);
+    assert.equal(refused.body.errors[0].pointer, '#/query/without');
+  });
+
   test('when the same entry is sent twice (a retry), then it is stored once and the first answer comes back', async () => {
     const record = await startRecord();
     const body = entry('isolate', { lock: 'Lock 3' });

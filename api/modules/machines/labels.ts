@@ -3,6 +3,7 @@ import { resolve } from 'node:path';
 import PDFDocument from 'pdfkit';
 import QRCode from 'qrcode';
 import { MACHINE_KIND_LABELS, type MachineKind } from '../../contracts/machine-spec';
+import { FONT_DIR } from '../../lib/paths';
 
 /** One QR label: what is printed, and where the code leads. */
 export interface LabelMachine {
@@ -50,7 +51,6 @@ export function machineUrl(publicUrl: string, id: string): string {
 }
 
 // The repository's own fonts when they are there (so every sheet prints the same), else pdfkit's Helvetica.
-const FONT_DIR = resolve(import.meta.dirname, '..', '..', 'assets', 'fonts');
 const FONTS = { regular: 'DejaVuSans.ttf', bold: 'DejaVuSans-Bold.ttf', mono: 'DejaVuSansMono.ttf' };
 let fonts: { regular: Buffer; bold: Buffer; mono: Buffer } | null | undefined;
 function fontFiles() {

@@ -6,11 +6,12 @@ import type { Caution, Step, StepInput } from '../../../procedures/schema';
 import { SIGNATURE_MEANINGS } from '../../contracts/signoff';
 import type { RecordPdfData } from './data';
 import { fixed, limitsText, OUTCOME_LABELS, printedTime, resultLabel, statusLabel } from './format';
+import { FONT_DIR } from '../../lib/paths';
 
 // Setwright's record PDF: A4, our own plain layout. Everything is drawn from RecordPdfData; no I/O here.
 // The fonts are files in the repository (DejaVu, embedded as subsets), so every copy prints the same.
 
-export const FONT_DIR = resolve(import.meta.dirname, '..', '..', 'assets', 'fonts');
+export { FONT_DIR };
 let fontFiles: { regular: Buffer; bold: Buffer; mono: Buffer } | undefined;
 
 /** The embedded fonts' bytes, read once per process. */

@@ -15,7 +15,7 @@ export function pdfRouter(pdfs: PdfService, records: RecordService): Router {
 
   router.get('/:id/pdf', allow(...ANY_ROLE), validate({ params: idParams }), async (req, res) => {
     const { id } = validated<z.infer<typeof idParams>>(res, 'params');
-    await records.get(req.user!, id); // the same read rule as the record itself
+    await records.assertReadable(req.user!, id); // the same read rule as the record itself
     const file = await pdfs.open(id);
     await audit('record.downloaded', req.user!.id, id, { key: file.key, bytes: file.length ?? null });
     res.set({

@@ -1,12 +1,13 @@
 import { createHash } from 'node:crypto';
 import { readdirSync, readFileSync, statSync } from 'node:fs';
-import { join, resolve } from 'node:path';
+import { join } from 'node:path';
 import canonicalize from 'canonicalize';
 import type { Sequelize } from 'sequelize';
 import { procedureSchema, type Procedure } from '../../../procedures/schema';
 import { ProcedureVersion } from './model';
+import { PACKS_DIR } from '../../lib/paths';
 
-export const PACKS_DIR = resolve(import.meta.dirname, '..', '..', '..', 'procedures');
+export { PACKS_DIR };
 const PACKS = ['bandsaw'];
 
 /** SHA-256 of a procedure's canonical JSON (RFC 8785 key order), so the same content always has the same checksum. */

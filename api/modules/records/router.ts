@@ -22,6 +22,8 @@ const listQuery = z.object({
   machineId: z.uuid().optional(),
   mine: z.enum(['1', 'true']).optional(),
 });
+/** `?without=procedure` leaves out the pinned procedure's body (a client that has it asks only for the entries and state). */
+const detailQuery = z.object({ without: z.enum(['procedure'], { error: 'Only "procedure" can be left out.' }).optional() });
 const RUNNERS = ['trainee', 'competent_person'] as const;
 
 export function recordsRouter(records: RecordService, config: Config): Router {
@@ -50,8 +52,10 @@ export function recordsRouter(records: RecordService, config: Config): Router {
     res.status(created ? 201 : 200).location(`/api/records/${record.id}`).json(record);
   });
 
-  router.get('/:id', allow(...ANY_ROLE), validate({ params: idParams }), async (req, res) => {
-    res.json(await records.get(req.user!, validated<z.infer<typeof idParams>>(res, 'params').id));
+  router.get('/:id', allow(...ANY_ROLE), validate({ params: idParams, query: detailQuery }), async (req, res) => {
+    const { id } = validated<z.infer<typeof idParams>>(res, 'params');
+    const { without } = validated<z.infer<typeof detailQuery>>(res, 'query');
+    res.json(without === 'procedure' ? await records.get(req.user!, id, { withProcedure: false }) : await records.get(req.user!, id));
   });
 
   router.post('/:id/entries', allow(...RUNNERS), witnessThrottle, validate({ params: idParams, body: stepEntryRequestSchema }), async (req, res) => {

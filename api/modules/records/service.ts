@@ -1,7 +1,7 @@
 import { randomUUID } from 'node:crypto';
 import { QueryTypes, UniqueConstraintError, type Sequelize } from 'sequelize';
 import { evaluateStep } from '../../../procedures/engine';
-import type { RecordDetail, RecordStatus, RecordSummary, StartRecordRequest, StepEntryRequest, StepEntryView } from '../../contracts/records';
+import type { RecordDetail, RecordState, RecordStatus, RecordSummary, StartRecordRequest, StepEntryRequest, StepEntryView } from '../../contracts/records';
 import { AppError } from '../../lib/errors';
 import type { AuthService } from '../auth/service';
 import { Machine } from '../machines/model';
@@ -15,7 +15,7 @@ import type { SignOffService } from '../signoff/service';
 import type { Notifier } from '../mail/notifier';
 import { SetupRecord, StepEntry } from './model';
 import { checkValues } from './values';
-import { entryView, recordDetail, recordSummary } from './views';
+import { entryRowView, entryView, recordState, recordSummary, type EntryRow } from './views';
 
 const READERS = ['competent_person', 'auditor', 'workshop_admin'] as const;
 const withParts = {
@@ -120,8 +120,20 @@ export class RecordService {
     return { record: await this.detail((await SetupRecord.findByPk(id, withParts))!), created: true };
   }
 
-  async get(person: Person, id: string): Promise<RecordDetail> {
-    return this.detail(await this.readable(person, id));
+  async get(person: Person, id: string): Promise<RecordDetail>;
+  async get(person: Person, id: string, opts: { withProcedure: false }): Promise<RecordState>;
+  async get(person: Person, id: string, opts: { withProcedure: boolean } = { withProcedure: true }): Promise<RecordDetail | RecordState> {
+    const record = await this.readable(person, id);
+    return opts.withProcedure ? this.detail(record) : recordState(record, await this.entries(record.id));
+  }
+
+  /** The read rule of a record (its starter, or a competent person, auditor or admin), in one lean statement. */
+  async assertReadable(person: Person, id: string): Promise<void> {
+    const [row] = await this.sequelize.query<{ started_by_id: string }>('SELECT started_by_id FROM setup_records WHERE id = $1', { bind: [id], type: QueryTypes.SELECT });
+    if (!row) throw AppError.notFound('There is no record with that id.');
+    if (row.started_by_id !== person.id && !person.roles.some((r) => (READERS as readonly string[]).includes(r))) {
+      throw AppError.forbidden('This record belongs to someone else.');
+    }
   }
 
   /** Records the person may see: their own, or every record for competent persons, auditors and admins. */
@@ -334,7 +346,23 @@ export class RecordService {
   }
 
   private async detail(record: SetupRecord): Promise<RecordDetail> {
-    const entries = await StepEntry.findAll({ where: { recordId: record.id }, ...entryPeople, order: [['createdAt', 'ASC'], ['attempt', 'ASC']] });
-    return recordDetail(record, entries, await procedureBody(record.procedureVersionId));
+    const [entries, body] = await Promise.all([this.entries(record.id), procedureBody(record.procedureVersionId)]);
+    return { ...recordState(record, entries), procedureBody: body };
+  }
+
+  /** Every attempt of every step, oldest first, with who entered and witnessed it: one statement, no model instances. */
+  private async entries(recordId: string): Promise<StepEntryView[]> {
+    const rows = await this.sequelize.query<EntryRow>(
+      `SELECT e.id, e.step_id, e.attempt, e.values, e.evaluation, e.outcome, e.corrective_note, e.entered_by_id,
+              eb.display_name AS entered_by_name, e.witnessed_by_id, wb.display_name AS witnessed_by_name,
+              e.witnessed_at, e.idempotency_key, e.created_at
+         FROM step_entries e
+         LEFT JOIN users eb ON eb.id = e.entered_by_id
+         LEFT JOIN users wb ON wb.id = e.witnessed_by_id
+        WHERE e.record_id = $1
+        ORDER BY e.created_at, e.attempt`,
+      { bind: [recordId], type: QueryTypes.SELECT },
+    );
+    return rows.map(entryRowView);
   }
 }

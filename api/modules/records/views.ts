@@ -1,5 +1,4 @@
-import type { RecordDetail, RecordSummary, StepEntryView } from '../../contracts/records';
-import type { Procedure } from '../../../procedures/schema';
+import type { RecordState, RecordSummary, StepEntryView } from '../../contracts/records';
 import type { User } from '../people/model';
 import type { SetupRecord, StepEntry } from './model';
 
@@ -36,12 +35,47 @@ export function recordSummary(r: SetupRecord): RecordSummary {
   };
 }
 
-export function recordDetail(r: SetupRecord, entries: StepEntry[], body: Procedure): RecordDetail {
+/** A record as it stands, without its procedure's body (the client has that, by version). */
+export function recordState(r: SetupRecord, entries: StepEntryView[]): RecordState {
   return {
     ...recordSummary(r),
-    procedureBody: body,
     machineSpec: r.machineSpec,
-    entries: entries.map(entryView),
+    entries,
     voidReason: r.voidReason,
+  };
+}
+
+/** A step entry as the entries query returns it (snake_case columns, names joined in). */
+export interface EntryRow {
+  id: string;
+  step_id: string;
+  attempt: number;
+  values: Record<string, unknown>;
+  evaluation: StepEntryView['evaluation'];
+  outcome: StepEntryView['outcome'];
+  corrective_note: string | null;
+  entered_by_id: string;
+  entered_by_name: string | null;
+  witnessed_by_id: string | null;
+  witnessed_by_name: string | null;
+  witnessed_at: Date | null;
+  idempotency_key: string;
+  created_at: Date;
+}
+
+export function entryRowView(e: EntryRow): StepEntryView {
+  return {
+    id: e.id,
+    stepId: e.step_id,
+    attempt: e.attempt,
+    values: e.values,
+    evaluation: e.evaluation,
+    outcome: e.outcome,
+    correctiveNote: e.corrective_note,
+    enteredBy: { id: e.entered_by_id, displayName: e.entered_by_name ?? '' },
+    witnessedBy: e.witnessed_by_id ? { id: e.witnessed_by_id, displayName: e.witnessed_by_name ?? '' } : null,
+    witnessedAt: e.witnessed_at ? new Date(e.witnessed_at).toISOString() : null,
+    idempotencyKey: e.idempotency_key,
+    createdAt: new Date(e.created_at).toISOString(),
   };
 }

@@ -24,7 +24,7 @@ export function signOffRouter(signOff: SignOffService, records: RecordService): 
 
   router.get('/:id/signatures', allow(...ANY_ROLE), validate({ params: idParams }), async (req, res) => {
     const { id } = validated<Id>(res, 'params');
-    await records.get(req.user!, id); // the same read rule as the record itself
+    await records.assertReadable(req.user!, id); // the same read rule as the record itself
     res.json(await signOff.detail(id));
   });
 
@@ -46,7 +46,7 @@ export function signOffRouter(signOff: SignOffService, records: RecordService): 
 
   router.get('/:id/check', allow(...ANY_ROLE), validate({ params: idParams }), async (req, res) => {
     const { id } = validated<Id>(res, 'params');
-    await records.get(req.user!, id);
+    await records.assertReadable(req.user!, id);
     res.json(await signOff.check(id, req.user!.id));
   });
 

@@ -2,7 +2,7 @@ import { HttpClient } from '@angular/common/http';
 import { computed, DestroyRef, effect, inject, Injectable, InjectionToken, PendingTasks, signal, untracked } from '@angular/core';
 import { firstValueFrom, timeout, type Observable } from 'rxjs';
 import { PHOTO_FIELD, type PhotoView } from '@setwright/contracts/photos';
-import { RECORD_STATUS_LABELS, type RecordDetail, type StepEntryView } from '@setwright/contracts/records';
+import { RECORD_STATUS_LABELS, type RecordDetail, type RecordState, type StepEntryView } from '@setwright/contracts/records';
 import { toProblem, type Problem } from '../problem';
 import { ownErrors, Session } from '../session';
 import { Connection } from './connection';
@@ -264,7 +264,8 @@ export class Outbox {
   async sendAgain(seq: number): Promise<string | null> {
     const item = this.find(seq);
     if (item?.kind !== 'entry' || (item.state !== 'conflict' && item.state !== 'kept')) return null;
-    const r = await this.call(this.http.get<RecordDetail>(`/api/records/${item.recordId}`, direct()));
+    // Only its state and entries are needed here, not the procedure's body.
+    const r = await this.call(this.http.get<RecordState>(`/api/records/${item.recordId}`, { ...direct(), params: { without: 'procedure' } }));
     if (!r.ok) return r.problem.status === 0 ? 'There is no connection to the server. Try again when the Wi-Fi is back.' : (r.problem.detail ?? r.problem.title);
     if (!isOpen(r.value.status)) return `The record is ${RECORD_STATUS_LABELS[r.value.status].toLowerCase()}, so it takes no more entries.`;
     const again = (i: EntryItem): EntryItem => ({ ...i, state: 'waiting', problem: null, basedOn: { status: r.value.status, attempt: latestAttempt(r.value.entries, i.request.stepId) } });
