@@ -3,6 +3,7 @@ import { join } from 'node:path';
 import { DEMO_PASSWORD, DEMO_PEOPLE } from '../api/db/seed';
 import { ROLE_LABELS } from '../api/contracts/roles';
 import { clientBuildIsCurrent, clientInputsHash, markClientBuilt } from './lib/client-build';
+import { buildApiBundle, spawnApi, waitForApi } from './lib/api-bundle';
 import { runCommand } from './lib/run';
 import { LOCAL_S3_DIR, localPgDir, localSecrets, prepareDatabase, ROOT, say, startStack } from './lib/stack';
 
@@ -43,11 +44,27 @@ try {
       markClientBuilt(inputs);
     }
   }
-  const { startApi } = await import('../api/main');
-  const { loadConfig } = await import('../api/config');
-  const api = await startApi(loadConfig({ ...process.env, ...stack.env, PUBLIC_URL: `http://127.0.0.1:${stack.env['PORT']}`, COOKIE_SECURE: 'false' }));
+  // The API in a process of its own, from its bundle (see scripts/lib/api-bundle.ts).
+  await buildApiBundle();
+  const url = `http://127.0.0.1:${stack.env['PORT']}`;
+  const child = spawnApi({ ...stack.env, PUBLIC_URL: url, COOKIE_SECURE: 'false' });
+  const api = {
+    url,
+    stop: () =>
+      new Promise<void>((resolve) => {
+        if (child.exitCode !== null) return resolve();
+        child.once('exit', () => resolve());
+        child.kill('SIGTERM');
+      }),
+  };
+  child.once('exit', (code) => {
+    if (stopping) return;
+    if (code !== 0) console.error(`[setwright] the API process stopped (exit ${code}).`);
+    void shutdown(code === 0 ? 0 : 1);
+  });
   process.once('SIGINT', () => void shutdown(0, api));
   process.once('SIGTERM', () => void shutdown(0, api));
+  await waitForApi(`${url}/api/health`, () => child.exitCode !== null);
   say(`Setwright is ready at ${api.url}  (Ctrl-C stops the server and the database)`);
   say(`demo sign-ins (password for all: ${DEMO_PASSWORD}):`);
   for (const p of DEMO_PEOPLE) say(`  ${p.roles.map((r) => ROLE_LABELS[r]).join(' + ').padEnd(34)} ${p.email}`);

@@ -1,9 +1,10 @@
-// Benchmarks measure the API as it runs in production: its own process (api/main.ts), apart from
+// Benchmarks measure the API as it runs in production: its own process (the bundle of api/main.ts), apart from
 // the harness that sends the load, so the harness's CPU and memory never count as the API's.
 import { spawn, type ChildProcess } from 'node:child_process';
 import { chmodSync, mkdtempSync, readFileSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
+import { apiProcessEnv, buildApiBundle } from '../../../scripts/lib/api-bundle';
 import { freePort } from '../../../scripts/lib/ports';
 import { prepareDatabase, ROOT, startStack, throwawaySecrets, type Stack } from '../../../scripts/lib/stack';
 
@@ -47,13 +48,13 @@ async function waitUntilUp(url: string, child: ChildProcess, log: () => string):
   throw new Error(`the server process did not answer within 60 s:\n${log()}`);
 }
 
-async function startProcess(script: string, env: Record<string, string>, probePath: string): Promise<ServerProcess> {
+async function startProcess(args: string[], env: NodeJS.ProcessEnv, probePath: string): Promise<ServerProcess> {
   const port = await freePort();
   // BENCH_CPU_PROF=<folder> writes a V8 CPU profile of each server process there (node --cpu-prof).
   const profile = process.env['BENCH_CPU_PROF'] ? ['--cpu-prof', `--cpu-prof-dir=${process.env['BENCH_CPU_PROF']}`] : [];
-  const child = spawn(process.execPath, [...profile, '--import', 'tsx', join(ROOT, script)], {
+  const child = spawn(process.execPath, [...profile, ...args], {
     cwd: ROOT,
-    env: { ...process.env, ...env, PORT: String(port), HOST: '127.0.0.1' },
+    env: { ...env, PORT: String(port), HOST: '127.0.0.1' },
     stdio: ['ignore', 'ignore', 'pipe'],
   });
   let stderr = '';
@@ -84,14 +85,18 @@ async function startProcess(script: string, env: Record<string, string>, probePa
   };
 }
 
-/** The real API (api/main.ts: migrate, load packs, mail worker, listen) against the bench's stack. */
-export function startApiProcess(stackEnv: Record<string, string>, extra: Record<string, string> = {}): Promise<ServerProcess> {
-  return startProcess('api/main.ts', { ...stackEnv, LOG_LEVEL: 'silent', ...extra }, '/api/health');
+/**
+ * The real API as `npm start` runs it (its bundle, with the same process environment: migrate,
+ * load packs, mail worker, listen) against the bench's stack.
+ */
+export async function startApiProcess(stackEnv: Record<string, string>, extra: Record<string, string> = {}): Promise<ServerProcess> {
+  const bundle = await buildApiBundle();
+  return startProcess([bundle], apiProcessEnv({ ...stackEnv, LOG_LEVEL: 'silent', ...extra }), '/api/health');
 }
 
 /** A bare Express JSON echo, the baseline every API figure is set against. */
 export function startEchoProcess(): Promise<ServerProcess> {
-  return startProcess('test/bench/support/echo.ts', {}, '/echo');
+  return startProcess([join(ROOT, 'test/bench/support/echo.mjs')], process.env, '/echo');
 }
 
 /**

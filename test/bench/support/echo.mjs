@@ -1,4 +1,5 @@
-// The bare baseline for benchmarks: Express 5 with its JSON body parser and nothing else.
+// The bare baseline for benchmarks: Express 5 with its JSON body parser and nothing else (plain
+// JavaScript run by plain Node, as the API's bundle is).
 import express from 'express';
 
 const app = express();
