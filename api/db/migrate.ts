@@ -9,6 +9,7 @@ import * as m0006 from './migrations/0006-archive-indexes';
 import * as m0007 from './migrations/0007-outbox-and-invitations';
 import * as m0008 from './migrations/0008-schedules';
 import * as m0009 from './migrations/0009-blades-and-competencies';
+import * as m0020 from './migrations/0020-shared-throttles-and-mail-batches';
 
 export interface Migration {
   up: MigrationFn<QueryInterface>;
@@ -26,6 +27,7 @@ const MIGRATIONS: [string, Migration][] = [
   ['0007-outbox-and-invitations', m0007],
   ['0008-schedules', m0008],
   ['0009-blades-and-competencies', m0009],
+  ['0020-shared-throttles-and-mail-batches', m0020],
 ];
 
 export function createMigrator(sequelize: Sequelize) {

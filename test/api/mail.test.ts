@@ -21,7 +21,7 @@ import { setActive, type Person } from '../../api/modules/people/repository';
 import { hashInvitationToken } from '../../api/modules/people/service';
 import { freePort } from '../../scripts/lib/ports';
 import { startSmtpStandIn, type SmtpStandIn } from '../../scripts/lib/smtp';
-import { db, makePerson, PASSWORD, signIn, testConfig } from '../support/api';
+import { db, makePerson, ownThrottles, PASSWORD, signIn, testConfig } from '../support/api';
 import { readMailbox, tokenFrom, waitFor, type StoredMail } from '../support/mail';
 import { approve, fixture } from '../support/procedures';
 
@@ -44,7 +44,7 @@ const config = testConfig({
 const outbox = new Outbox(db(), config, silent);
 /** A second API instance delivering from the same queue, as when the API runs on several machines. */
 const secondOutbox = new Outbox(db(), config, silent);
-const app = createApp({ config, sequelize: db(), logger: silent, outbox });
+const app = createApp({ config, sequelize: db(), logger: silent, outbox, throttleNamespace: ownThrottles() });
 const notifier = new Notifier(outbox, config, silent);
 let standIn: SmtpStandIn | undefined;
 
