@@ -104,12 +104,14 @@ async function stopInstance(i: Instance) {
   clearTimeout(killer);
 }
 
+/** Everything a process has said, for a failure's message. */
+const said = (i: Instance) => [...i.logs.map((l) => JSON.stringify(l)), ...i.other].join('\n');
+
 /** A process that has stopped or logged an error fails the test with what it said. */
 function healthy(i: Instance) {
   const errors = i.logs.filter((l) => l.level >= 50);
-  const said = () => [...i.logs.map((l) => JSON.stringify(l)), ...i.other].join('\n');
-  assert.equal(i.exited, undefined, `${i.name} stopped (exit ${i.exited}):\n${said()}`);
-  assert.deepEqual(errors, [], `${i.name} logged errors:\n${said()}`);
+  assert.equal(i.exited, undefined, `${i.name} stopped (exit ${i.exited}):\n${said(i)}`);
+  assert.deepEqual(errors, [], `${i.name} logged errors:\n${said(i)}`);
 }
 
 // Stop both processes and drop their database whatever happened above.
@@ -144,15 +146,24 @@ describe('two API processes on one database', () => {
     const [portA, portB] = [await freePort(), await freePort()];
     a = startInstance('instance A', portA);
     b = startInstance('instance B', portB);
+    const spawned = Date.now();
     for (const i of [a, b]) {
+      // Two processes loading the whole API through tsx on a busy 2-core machine can take a while.
       await waitFor(`${i.name} healthy`, async () => {
         if (i.exited !== undefined) return true;
         return (await fetch(`${i.url}/api/health`).then((r) => r.ok, () => false)) || undefined;
-      }, 45_000);
+      }, 90_000).catch((err: Error) => {
+        throw new Error(`${err.message} after ${Date.now() - spawned} ms; it said:\n${said(i)}`);
+      });
       healthy(i);
       assert.ok(i.logs.some((l) => l.msg === 'mail worker started'), `${i.name} delivers mail`);
     }
 
+    // How long each took, from spawning to its log lines (pino's times), for the record.
+    for (const i of [a, b]) {
+      const at = (msg: string) => Number(i.logs.find((l) => l.msg === msg)?.['time'] ?? NaN) - spawned;
+      console.log(`${i.name}: database ready after ${at('database ready')} ms, listening after ${at('Setwright is listening')} ms`);
+    }
     // The start-up lock let one migrate and load; the other found it done.
     const ready = [a, b].map((i) => i.logs.find((l) => l.msg === 'database ready') as unknown as { migrations: string[]; procedures: string[] });
     sequelize = createDatabase(url, 4);
