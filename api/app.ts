@@ -10,6 +10,7 @@ import type { Config } from './config';
 import { createPassport, requireSignIn } from './lib/access';
 import { createLogger } from './lib/logger';
 import { ObjectStore } from './lib/object-store';
+import { postgresThrottleStores } from './lib/throttle-store';
 import { apiNotFound, problemHandler } from './lib/problem-handler';
 import { authRouter } from './modules/auth/router';
 import { AuthService } from './modules/auth/service';
@@ -54,6 +55,11 @@ export interface AppDeps {
   notifyTaggedOut?: TagOutNotifier;
   /** The e-mail outbox; made from config when not given. It only queues until its worker is started (main.ts does). */
   outbox?: Outbox;
+  /**
+   * Put before every throttle key in the shared counter table: '' (the default) in production, so
+   * every instance counts the same tries; tests give each app its own so their tries do not add up.
+   */
+  throttleNamespace?: string;
 }
 
 /** Build the Express app (no listen): the API under /api and, when built, the client app. */
@@ -65,10 +71,13 @@ export function createApp({
   now = () => new Date(),
   notifyTaggedOut,
   outbox = new Outbox(sequelize, config, logger),
+  throttleNamespace = '',
 }: AppDeps): Express {
   const app = express();
   app.disable('x-powered-by');
   app.set('query parser', 'simple');
+  // Behind a load balancer the client's address comes from X-Forwarded-For, for the hops configured.
+  if (config.TRUST_PROXY !== undefined) app.set('trust proxy', config.TRUST_PROXY);
   const https = config.COOKIE_SECURE ? config.COOKIE_SECURE === 'true' : config.NODE_ENV === 'production';
   app.use(
     helmet({
@@ -98,6 +107,8 @@ export function createApp({
   const auth = new AuthService(tokens, config.REFRESH_TOKEN_HOURS, config.BCRYPT_COST);
   const passport = createPassport(tokens);
   const photos = new PhotoService(objectStore, config.PHOTO_MAX_PIXELS, logger);
+  // Sign-in, witness and set-password throttles count in PostgreSQL, shared by every API instance.
+  const throttles = postgresThrottleStores(sequelize, throttleNamespace);
 
   const api = Router();
   api.use(express.json({ limit: '1mb' }));
@@ -107,11 +118,11 @@ export function createApp({
     next();
   });
   api.use('/health', healthRouter(sequelize));
-  api.use('/auth', authRouter(auth, config));
+  api.use('/auth', authRouter(auth, config, throttles));
   // E-mail: every notice goes through the outbox; other modules get `notifier` (see mail/notifier.ts).
   const notifier = new Notifier(outbox, config, logger);
   const people = new PeopleService(sequelize, notifier, { invitationHours: config.INVITATION_HOURS, bcryptCost: config.BCRYPT_COST });
-  api.use('/auth', setPasswordRouter(people, config));
+  api.use('/auth', setPasswordRouter(people, config, throttles));
   // Every other router needs a valid access token; each route also declares the roles it allows.
   const signedIn = requireSignIn(passport);
   api.use('/people', signedIn, peopleRouter(people));
@@ -167,7 +178,7 @@ export function createApp({
     })),
   );
   api.use('/competencies', signedIn, competenciesRouter(competencies, config.WORKSHOP_TIME_ZONE));
-  api.use('/records', signedIn, recordsRouter(records, config));
+  api.use('/records', signedIn, recordsRouter(records, config, throttles));
   api.use('/records', signedIn, signOffRouter(signOff, records));
   api.use('/records', signedIn, pdfRouter(pdfs, records));
   api.use('/archive', signedIn, archiveRouter(new ArchiveService(sequelize, pdfs, config.WORKSHOP_NAME, logger)));

@@ -27,6 +27,17 @@ const configSchema = z.object({
     .transform((s) => s.split(',').map((k) => k.trim()).filter(Boolean)),
   /** Scheduled checks falling due within this many days show as "Due soon". */
   SCHEDULE_SOON_DAYS: z.coerce.number().int().min(0).max(90).default(7),
+  /**
+   * Behind a load balancer or reverse proxy: which X-Forwarded-For hops to believe, as Express's
+   * "trust proxy" takes it ("true", a hop count such as "1", or addresses/subnets such as
+   * "loopback, 10.0.0.0/8"). Unset, the peer address is the client (throttles per device need the real one).
+   */
+  TRUST_PROXY: z
+    .string()
+    .trim()
+    .min(1)
+    .optional()
+    .transform((v) => (v === undefined ? undefined : v === 'true' ? true : v === 'false' ? false : /^\d+$/.test(v) ? Number(v) : v)),
   /** Mark the refresh cookie Secure; defaults to on in production. Off only for plain-http serving on loopback. */
   COOKIE_SECURE: z.enum(['true', 'false']).optional(),
   /** The S3-compatible object store for photos (the local stand-in, or a real one: only these settings change). */

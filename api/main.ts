@@ -6,6 +6,7 @@ import { createApp } from './app';
 import { loadConfig, type Config } from './config';
 import { createDatabase } from './db/database';
 import { migrate } from './db/migrate';
+import { withStartupLock } from './db/startup-lock';
 import { loadProcedurePacks } from './modules/procedures/loader';
 import { createLogger } from './lib/logger';
 import { Outbox } from './modules/mail/outbox';
@@ -15,12 +16,19 @@ export interface RunningApi {
   stop(): Promise<void>;
 }
 
-/** Connect, migrate, listen. Used by `npm start` and `npm run dev`; tests use createApp() directly. */
+/**
+ * Connect, migrate, listen. Used by `npm start` and `npm run dev`; tests use createApp() directly.
+ * Any number of instances may run on one database (see README, "Running more than one API process").
+ */
 export async function startApi(config: Config = loadConfig()): Promise<RunningApi> {
   const logger = createLogger(config.LOG_LEVEL);
   const sequelize = createDatabase(config.DATABASE_URL, config.DATABASE_POOL_MAX);
-  await migrate(sequelize);
-  await loadProcedurePacks(sequelize);
+  // Instances starting together on one database take turns here (an advisory lock): one migrates and loads the packs.
+  const prepared = await withStartupLock(config.DATABASE_URL, async () => ({
+    migrations: await migrate(sequelize),
+    procedures: await loadProcedurePacks(sequelize),
+  }));
+  logger.info(prepared, 'database ready');
   // This instance delivers e-mail from the outbox too (any number of instances may: each message goes once).
   const outbox = new Outbox(sequelize, config, logger);
   const app = createApp({ config, sequelize, logger, outbox });

@@ -11,6 +11,7 @@ import * as m0008 from './migrations/0008-schedules';
 import * as m0009 from './migrations/0009-blades-and-competencies';
 import * as m0010 from './migrations/0010-save-step-function';
 import * as m0011 from './migrations/0011-signed-run-indexes';
+import * as m0020 from './migrations/0020-shared-throttles-and-mail-batches';
 
 export interface Migration {
   up: MigrationFn<QueryInterface>;
@@ -30,6 +31,7 @@ const MIGRATIONS: [string, Migration][] = [
   ['0009-blades-and-competencies', m0009],
   ['0010-save-step-function', m0010],
   ['0011-signed-run-indexes', m0011],
+  ['0020-shared-throttles-and-mail-batches', m0020],
 ];
 
 export function createMigrator(sequelize: Sequelize) {

@@ -10,7 +10,7 @@ import { setActive } from '../../api/modules/people/repository';
 import { DEMO_PEOPLE } from '../../api/db/seed';
 import { createApp } from '../../api/app';
 import { createLogger } from '../../api/lib/logger';
-import { db, expectProblem, makePerson, PASSWORD, signIn, testApp, testConfig } from '../support/api';
+import { db, expectProblem, makePerson, ownThrottles, PASSWORD, signIn, testApp, testConfig } from '../support/api';
 
 describe('signing in', () => {
   test('when the email and password are right, then a token, the person and a refresh cookie come back, and only a hash of the refresh token is stored', async () => {
@@ -182,7 +182,7 @@ describe('secrets in the logs', () => {
     const lines: string[] = [];
     const logger = createLogger('debug', { write: (line: string) => void lines.push(line) });
     const config = testConfig({ NODE_ENV: 'development', LOG_LEVEL: 'debug' });
-    const app = createApp({ config, sequelize: db(), logger });
+    const app = createApp({ config, sequelize: db(), logger, throttleNamespace: ownThrottles() });
     const person = await makePerson(['trainee'], 'Log Watcher');
     await request(app).post('/api/auth/login').send({ email: person.email, password: 'a-wrong-password-123' }).expect(401);
     const ok = await request(app).post('/api/auth/login').send({ email: person.email, password: PASSWORD }).expect(200);

@@ -9,7 +9,7 @@ import { Authorisation } from '../../api/modules/competencies/model';
 import { listExpiringAuthorisations } from '../../api/modules/competencies/service';
 import type { Person } from '../../api/modules/people/repository';
 import { SetupRecord } from '../../api/modules/records/model';
-import { db, expectProblem, makePerson, PASSWORD, signIn, testApp, testConfig } from '../support/api';
+import { db, expectProblem, makePerson, ownThrottles, PASSWORD, signIn, testApp, testConfig } from '../support/api';
 import { approve, fixture } from '../support/procedures';
 import { freshMachine, RecordMaker } from '../support/records';
 
@@ -21,7 +21,7 @@ const day = (from: Date, days = 0) =>
 
 // A second app on a fixed clock, for judging expiry against a known "today".
 const FIXED = new Date('2027-03-10T12:00:00Z');
-const fixedApp = createApp({ config: testConfig(), sequelize: db(), logger: createLogger('silent'), now: () => FIXED });
+const fixedApp = createApp({ config: testConfig(), sequelize: db(), logger: createLogger('silent'), now: () => FIXED, throttleNamespace: ownThrottles() });
 
 let trainee: Person, otherTrainee: Person, competent: Person, secondCompetent: Person, admin: Person, auditor: Person;
 const tokens: Record<string, string> = {};

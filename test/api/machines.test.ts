@@ -22,7 +22,7 @@ import type { Person } from '../../api/modules/people/repository';
 import { ProcedureVersion } from '../../api/modules/procedures/model';
 import { SetupRecord } from '../../api/modules/records/model';
 import type { TagOutNotice } from '../../api/modules/schedules/tag-out-notice';
-import { db, expectProblem, makePerson, PASSWORD, signIn, testApp, testConfig } from '../support/api';
+import { db, expectProblem, makePerson, ownThrottles, PASSWORD, signIn, testApp, testConfig } from '../support/api';
 import { approve, fixture } from '../support/procedures';
 
 const run = promisify(execFile);
@@ -72,8 +72,9 @@ before(async () => {
     sequelize: db(),
     logger,
     notifyTaggedOut: async (n) => void notices.push(n),
+    throttleNamespace: ownThrottles(),
   });
-  clocked = createApp({ config, sequelize: db(), logger, now: () => NOW });
+  clocked = createApp({ config, sequelize: db(), logger, now: () => NOW, throttleNamespace: ownThrottles() });
   for (const [name, p] of Object.entries({ admin, trainee, competent, signer, auditor })) tokens[name] = (await signIn(app, p.email)).token;
   bladeChangeVersionId = (await ProcedureVersion.findOne({ where: { key: 'blade-change', status: 'approved' } }))!.id;
 });

@@ -21,7 +21,7 @@ import { setActive, type Person } from '../../api/modules/people/repository';
 import { hashInvitationToken } from '../../api/modules/people/service';
 import { freePort } from '../../scripts/lib/ports';
 import { startSmtpStandIn, type SmtpStandIn } from '../../scripts/lib/smtp';
-import { db, makePerson, PASSWORD, signIn, testConfig } from '../support/api';
+import { db, makePerson, ownThrottles, PASSWORD, signIn, testConfig } from '../support/api';
 import { readMailbox, tokenFrom, waitFor, type StoredMail } from '../support/mail';
 import { approve, fixture } from '../support/procedures';
 
@@ -44,7 +44,7 @@ const config = testConfig({
 const outbox = new Outbox(db(), config, silent);
 /** A second API instance delivering from the same queue, as when the API runs on several machines. */
 const secondOutbox = new Outbox(db(), config, silent);
-const app = createApp({ config, sequelize: db(), logger: silent, outbox });
+const app = createApp({ config, sequelize: db(), logger: silent, outbox, throttleNamespace: ownThrottles() });
 const notifier = new Notifier(outbox, config, silent);
 let standIn: SmtpStandIn | undefined;
 
@@ -236,7 +236,7 @@ describe('e-mail through the outbox', () => {
     for (const m of mail) assert.equal(m.from, 'setwright@brackenford-works.example');
   });
 
-  test('when the daily due job runs, then the list from the schedules source goes out; with nothing due, nothing does', async () => {
+  test('when the daily due job runs, then the list from the schedules source goes out once that day; with nothing due, nothing does', async () => {
     const [rows] = await db().query(`SELECT cron, timezone FROM ${JOB_SCHEMA}.schedule WHERE name = :name`, { replacements: { name: `${config.MAIL_QUEUE}.due-this-week` } });
     assert.deepEqual(rows, [{ cron: '0 6 * * *', timezone: 'Europe/London' }], 'every day at 06:00 workshop time');
 
@@ -258,6 +258,10 @@ describe('e-mail through the outbox', () => {
       const sent = await OutboxMessage.findAll({ where: { kind: 'due_this_week', toAddress: admin.email, textBody: { [Op.like]: '%Bow descent speed%' } } });
       assert.equal(sent.length, 1);
       assert.equal(sent[0]!.subject, 'Due this week: 1 procedure');
+      // Run again the same workshop day (a retry, or a second instance's clock): nothing more goes.
+      const afterFirst = await OutboxMessage.count({ where: { kind: 'due_this_week' } });
+      await runDaily();
+      assert.equal(await OutboxMessage.count({ where: { kind: 'due_this_week' } }), afterFirst, 'the day\'s list goes once');
     } finally {
       await another.stop({ graceful: false });
     }

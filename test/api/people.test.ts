@@ -12,7 +12,7 @@ import { Invitation, NO_PASSWORD, RoleAssignment, User } from '../../api/modules
 import type { Person } from '../../api/modules/people/repository';
 import { hashInvitationToken } from '../../api/modules/people/service';
 import { AuditEvent } from '../../api/modules/signoff/model';
-import { db, expectProblem, makePerson, signIn, testConfig } from '../support/api';
+import { db, expectProblem, makePerson, ownThrottles, signIn, testConfig } from '../support/api';
 import { readMailbox, tokenFrom, waitFor } from '../support/mail';
 
 const PUBLIC_URL = 'https://setwright.brackenford-works.example';
@@ -23,7 +23,7 @@ const mailFolder = process.env['MAIL_STAND_IN_DIR']!;
 const outbox = new Outbox(db(), testConfig(settings), silent);
 const peopleApp = (overrides: Record<string, string> = {}) => {
   const config = testConfig({ ...settings, ...overrides });
-  return createApp({ config, sequelize: db(), logger: silent, outbox });
+  return createApp({ config, sequelize: db(), logger: silent, outbox, throttleNamespace: ownThrottles() });
 };
 const app = peopleApp();
 

@@ -8,7 +8,7 @@ import { createApp } from '../../api/app';
 import { createLogger } from '../../api/lib/logger';
 import { Outbox } from '../../api/modules/mail/outbox';
 import { User } from '../../api/modules/people/model';
-import { db, makePerson, PASSWORD, testConfig } from '../support/api';
+import { db, makePerson, ownThrottles, PASSWORD, testConfig } from '../support/api';
 import { launchBrowser, screenshot, signInThroughPage } from '../support/browser';
 import { readMailbox, waitFor } from '../support/mail';
 
@@ -23,7 +23,7 @@ async function serve(): Promise<{ base: string; outbox: Outbox; close(): Promise
   const base = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
   const config = testConfig({ ...settings, PUBLIC_URL: base });
   const outbox = new Outbox(db(), config, createLogger('silent'));
-  server.on('request', createApp({ config, sequelize: db(), logger: createLogger('silent'), outbox }));
+  server.on('request', createApp({ config, sequelize: db(), logger: createLogger('silent'), outbox, throttleNamespace: ownThrottles() }));
   await outbox.start();
   return {
     base,

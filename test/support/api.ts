@@ -32,10 +32,18 @@ export function testConfig(overrides: Record<string, string> = {}): Config {
   return loadConfig({ ...process.env, NODE_ENV: 'test', LOG_LEVEL: 'silent', ...overrides });
 }
 
-/** A fresh app on the real database; overrides change its settings (for throttling limits, say). */
+/**
+ * A throttle namespace of its own for one app: the throttles count in one shared table, so without
+ * it the tries of every app in the test run would add up (as they should between real instances).
+ */
+export function ownThrottles(): string {
+  return `test-${randomUUID()}:`;
+}
+
+/** A fresh app on the real database, with throttle counts of its own; overrides change its settings (for throttling limits, say). */
 export function testApp(overrides: Record<string, string> = {}): Express {
   const config = testConfig(overrides);
-  return createApp({ config, sequelize: db(), logger: createLogger('silent') });
+  return createApp({ config, sequelize: db(), logger: createLogger('silent'), throttleNamespace: ownThrottles() });
 }
 
 export const PASSWORD = DEMO_PASSWORD;

@@ -6,7 +6,7 @@ import { after } from 'node:test';
 import { chromium, type Browser, type Page } from 'playwright-core';
 import { createApp } from '../../api/app';
 import { createLogger } from '../../api/lib/logger';
-import { db, testConfig } from './api';
+import { db, ownThrottles, testConfig } from './api';
 
 export const ARTEFACTS = resolve(import.meta.dirname, '..', '..', 'test-results');
 
@@ -19,7 +19,7 @@ after(async () => {
 /** The production build served by the real API on a free port, for the length of the test file. */
 export async function startServer(): Promise<string> {
   const config = testConfig({ STATIC_DIR: resolve(import.meta.dirname, '..', '..', 'dist', 'setwright', 'browser'), COOKIE_SECURE: 'false' });
-  const app = createApp({ config, sequelize: db(), logger: createLogger('silent') });
+  const app = createApp({ config, sequelize: db(), logger: createLogger('silent'), throttleNamespace: ownThrottles() });
   const server: Server = await new Promise((ok) => {
     const s = app.listen(0, '127.0.0.1', () => ok(s));
   });

@@ -3,6 +3,7 @@ import { rateLimit } from 'express-rate-limit';
 import type { Config } from '../../config';
 import { loginRequestSchema, type LoginRequest } from '../../contracts/auth';
 import { AppError } from '../../lib/errors';
+import type { ThrottleStores } from '../../lib/throttle-store';
 import { validate, validated } from '../../lib/validate';
 import type { AuthService, IssuedSession } from './service';
 
@@ -14,8 +15,11 @@ function tooManyAttempts(detail: string) {
   };
 }
 
-/** Sign-in, refresh and sign-out: the only /api routes open without a token (besides health). */
-export function authRouter(auth: AuthService, config: Config): Router {
+/**
+ * Sign-in, refresh and sign-out: the only /api routes open without a token (besides health).
+ * The throttles count in `throttles` (PostgreSQL), so every API instance counts the same tries.
+ */
+export function authRouter(auth: AuthService, config: Config, throttles: ThrottleStores): Router {
   const router = Router();
   const cookie: CookieOptions = {
     httpOnly: true,
@@ -31,6 +35,7 @@ export function authRouter(auth: AuthService, config: Config): Router {
   const perAddress = rateLimit({
     windowMs: config.LOGIN_WINDOW_SECONDS * 1000,
     limit: config.LOGIN_LIMIT_PER_ADDRESS,
+    store: throttles('sign-in-address'),
     standardHeaders: 'draft-8',
     legacyHeaders: false,
     handler: tooManyAttempts('Too many sign-in attempts from this device. Wait a few minutes and try again.'),
@@ -38,6 +43,7 @@ export function authRouter(auth: AuthService, config: Config): Router {
   const perAccount = rateLimit({
     windowMs: config.LOGIN_WINDOW_SECONDS * 1000,
     limit: config.LOGIN_LIMIT_PER_ACCOUNT,
+    store: throttles('sign-in-account'),
     standardHeaders: 'draft-8',
     legacyHeaders: false,
     skipSuccessfulRequests: true,

@@ -2,6 +2,7 @@ import type { Logger } from 'pino';
 import type { Transaction } from 'sequelize';
 import type { Config } from '../../config';
 import { ROLE_LABELS, type Role } from '../../contracts/roles';
+import { workshopDate } from '../competencies/service';
 import { Machine } from '../machines/model';
 import { User } from '../people/model';
 import { activePeopleWithRoles, findPersonById } from '../people/repository';
@@ -21,8 +22,16 @@ export interface TaggedOutMachine {
   location?: string | null;
 }
 
-/** Authorisations ending soon: who holds them, on what, and how many days are left. */
-export type ExpiringSource = () => Promise<{ personId: string; procedureTitle: string; expiresOn: string; daysLeft: number }[]>;
+/** An authorisation ending soon: who holds it, on what, and how many days are left. */
+export interface ExpiringItem {
+  personId: string;
+  procedureTitle: string;
+  expiresOn: string;
+  daysLeft: number;
+}
+
+/** Authorisations ending soon. */
+export type ExpiringSource = () => Promise<ExpiringItem[]>;
 
 /** Where the daily "due this week" e-mail gets its list; the schedules module supplies it with useDueThisWeek(). */
 export type DueThisWeekSource = () => Promise<DueItem[]>;
@@ -39,6 +48,7 @@ export type DueThisWeekSource = () => Promise<DueItem[]>;
  * - `sendWeeklyDue(items)` — the "due this week" list to every active workshop admin and competent person.
  *   It also runs daily by itself (MAIL_DUE_CRON, 06:00 workshop time by default) with the items from the
  *   source given to `useDueThisWeek(source)`; with no source, or nothing due, it sends nothing.
+ * - `sendDaily(day)` — that daily job: the due list and the expiry reminders, queued at most once a workshop day.
  * - `invitation(...)` — the message for PeopleService to queue inside its own transaction.
  */
 export class Notifier {
@@ -51,8 +61,7 @@ export class Notifier {
     private readonly logger: Logger,
   ) {
     void outbox.schedule('due-this-week', config.MAIL_DUE_CRON, async () => {
-      await this.sendWeeklyDue(await this.dueSource());
-      await this.sendExpiringReminders(await this.expiringSource());
+      await this.sendDaily();
     });
   }
 
@@ -65,11 +74,19 @@ export class Notifier {
    * Remind each holder once 30 days before their authorisation ends and again 7 days before
    * (the daily job runs once a day, so each day-count is met once).
    */
-  async sendExpiringReminders(items: { personId: string; procedureTitle: string; expiresOn: string; daysLeft: number }[]): Promise<string[]> {
-    const due = items.filter((i) => i.daysLeft === 30 || i.daysLeft === 7);
-    const sent: string[] = [];
-    for (const i of due) sent.push(...(await this.notifyAuthorisationExpiring({ person: { id: i.personId }, procedureTitle: i.procedureTitle, expiresOn: i.expiresOn })));
-    return sent;
+  async sendExpiringReminders(items: ExpiringItem[]): Promise<string[]> {
+    return this.safely('authorisation expiring', async () => this.outbox.send(await this.expiringMessages(items)));
+  }
+
+  /**
+   * The daily job: the "due this week" list and the expiry reminders, queued in one batch at most
+   * once for each workshop day (YYYY-MM-DD in WORKSHOP_TIME_ZONE), however many API instances run
+   * it and however often it is retried. A day with nothing to send uses up nothing, so a later run
+   * that day still sends. Failures are thrown, so the job queue tries again.
+   */
+  async sendDaily(day = workshopDate(this.config.WORKSHOP_TIME_ZONE)): Promise<string[]> {
+    const messages = [...(await this.dueMessages(await this.dueSource())), ...(await this.expiringMessages(await this.expiringSource()))];
+    return this.outbox.sendOnce(`daily:${day}`, messages);
   }
 
   /** The list behind the daily "due this week" e-mail. */
@@ -135,28 +152,39 @@ export class Notifier {
   }
 
   async sendWeeklyDue(items: DueItem[]): Promise<string[]> {
-    return this.safely('due this week', async () => {
-      if (!items.length) return [];
-      const sorted = [...items].sort((a, b) => new Date(a.dueOn).getTime() - new Date(b.dueOn).getTime());
-      const people = await activePeopleWithRoles(['workshop_admin', 'competent_person']);
-      return this.outbox.send(
-        people.map((p) => ({ kind: 'due_this_week', to: { email: p.email, name: p.displayName }, letter: letters.dueThisWeek(this.context, p.displayName, sorted) })),
-      );
-    });
+    return this.safely('due this week', async () => this.outbox.send(await this.dueMessages(items)));
   }
 
   async notifyAuthorisationExpiring(a: { person: { id: string }; procedureTitle: string; expiresOn: Date | string }): Promise<string[]> {
-    return this.safely('authorisation expiring', async () => {
-      const person = await findPersonById(a.person.id);
-      if (!person || !person.active) return [];
-      return this.outbox.send([
-        {
-          kind: 'authorisation_expiring',
-          to: { email: person.email, name: person.displayName },
-          letter: letters.authorisationExpiring(this.context, person.displayName, a.procedureTitle, a.expiresOn),
-        },
-      ]);
-    });
+    return this.safely('authorisation expiring', async () => this.outbox.send(await this.expiringMessage(a)));
+  }
+
+  /** The "due this week" list for every active workshop admin and competent person (none when nothing is due). */
+  private async dueMessages(items: DueItem[]): Promise<OutgoingMessage[]> {
+    if (!items.length) return [];
+    const sorted = [...items].sort((a, b) => new Date(a.dueOn).getTime() - new Date(b.dueOn).getTime());
+    const people = await activePeopleWithRoles(['workshop_admin', 'competent_person']);
+    return people.map((p) => ({ kind: 'due_this_week', to: { email: p.email, name: p.displayName }, letter: letters.dueThisWeek(this.context, p.displayName, sorted) }));
+  }
+
+  /** The reminders for authorisations that end in exactly 30 or 7 days. */
+  private async expiringMessages(items: ExpiringItem[]): Promise<OutgoingMessage[]> {
+    const due = items.filter((i) => i.daysLeft === 30 || i.daysLeft === 7);
+    const out: OutgoingMessage[] = [];
+    for (const i of due) out.push(...(await this.expiringMessage({ person: { id: i.personId }, procedureTitle: i.procedureTitle, expiresOn: i.expiresOn })));
+    return out;
+  }
+
+  private async expiringMessage(a: { person: { id: string }; procedureTitle: string; expiresOn: Date | string }): Promise<OutgoingMessage[]> {
+    const person = await findPersonById(a.person.id);
+    if (!person || !person.active) return [];
+    return [
+      {
+        kind: 'authorisation_expiring',
+        to: { email: person.email, name: person.displayName },
+        letter: letters.authorisationExpiring(this.context, person.displayName, a.procedureTitle, a.expiresOn),
+      },
+    ];
   }
 
   /** The invitation, queued in the caller's transaction so the e-mail exists exactly when the invitation does. */

@@ -97,8 +97,26 @@ export class Outbox {
   }
 
   /**
+   * Queue these e-mails unless a batch with the same key went into this queue before. The key and
+   * the messages are written in one transaction: of two instances running the same batch at once,
+   * the second waits for the first and then queues nothing; a batch whose queuing failed can run
+   * again. Returns the ids ([] when the batch had gone already, or was empty).
+   */
+  async sendOnce(key: string, messages: OutgoingMessage[]): Promise<string[]> {
+    if (!messages.length) return [];
+    return this.sequelize.transaction(async (transaction) => {
+      const [claimed] = await this.sequelize.query('INSERT INTO mail_batches (key) VALUES ($1) ON CONFLICT (key) DO NOTHING RETURNING key', {
+        bind: [`${this.queue}:${key}`],
+        transaction,
+      });
+      return (claimed as unknown[]).length ? this.send(messages, transaction) : [];
+    });
+  }
+
+  /**
    * Run `run` on a cron schedule (in the workshop's time zone) wherever the outbox is started; pg-boss
-   * makes sure one instance runs it each time. Register before or after start(); the same name again
+   * makes sure one instance runs it each time (its clock runs on one instance per tick, and each
+   * firing is one job that one worker takes). For work that must never repeat, use sendOnce() in `run`. Register before or after start(); the same name again
    * replaces what runs.
    */
   async schedule(name: string, cron: string, run: () => Promise<void>): Promise<void> {
@@ -164,7 +182,13 @@ export class Outbox {
     await this.boss.createQueue(queue, { name: queue, retryLimit: 2, retryDelay: 60 });
     await this.boss.schedule(queue, this.schedules.get(name)!.cron, {}, { tz: this.config.WORKSHOP_TIME_ZONE });
     await this.boss.work(queue, async () => {
-      await this.schedules.get(name)?.run();
+      try {
+        await this.schedules.get(name)?.run();
+      } catch (err) {
+        // pg-boss retries the job; say why it failed.
+        this.logger.error({ err, job: name }, 'a scheduled job failed');
+        throw err;
+      }
     });
   }
 

@@ -13,6 +13,7 @@ import {
 import type { Config } from '../../config';
 import { allow, ANY_ROLE } from '../../lib/access';
 import { AppError } from '../../lib/errors';
+import type { ThrottleStores } from '../../lib/throttle-store';
 import { validate, validated } from '../../lib/validate';
 import type { RecordService } from './service';
 
@@ -26,12 +27,13 @@ const listQuery = z.object({
 const detailQuery = z.object({ without: z.enum(['procedure'], { error: 'Only "procedure" can be left out.' }).optional() });
 const RUNNERS = ['trainee', 'competent_person'] as const;
 
-export function recordsRouter(records: RecordService, config: Config): Router {
+export function recordsRouter(records: RecordService, config: Config, throttles: ThrottleStores): Router {
   const router = Router();
-  // Witness passwords are checked here too, so failed witness sign-ins are throttled like sign-ins.
+  // Witness passwords are checked here too, so failed witness sign-ins are throttled like sign-ins (counted in PostgreSQL).
   const witnessThrottle = rateLimit({
     windowMs: config.LOGIN_WINDOW_SECONDS * 1000,
     limit: config.LOGIN_LIMIT_PER_ACCOUNT,
+    store: throttles('witness-account'),
     standardHeaders: 'draft-8',
     legacyHeaders: false,
     skipSuccessfulRequests: true,
