@@ -25,6 +25,7 @@ function why(text: string): string {
   if (text.includes(',')) return 'has a comma; use a point for decimals';
   if (/^[+-]?0[xob]/i.test(text)) return 'is not a decimal number (hex, octal and binary are not read)';
   if (/^[+-]?(?:\d+\.?\d*|\.\d+)e[+-]?\d+$/i.test(text)) return 'is written with an exponent';
+  if (/[^\d\s.+-]/.test(text)) return 'is not a plain number';
   if (/\s/.test(text)) return 'has a space inside it';
   if ((text.match(/\./g) ?? []).length > 1) return 'has more than one decimal point';
   return 'is not a plain number';

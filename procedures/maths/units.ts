@@ -77,7 +77,7 @@ function sig(n: number): string {
 }
 
 /** Throws unless an SI value (or zero) lies within the kind's plausible workshop sizes. */
-function requirePlausible(v: number, kind: QuantityKind, argument: string, value: number, unit: string): number {
+function requirePlausible(v: number, kind: QuantityKind, argument: string, unit: string): number {
   const { min, max } = plausibleSi[kind];
   const size = Math.abs(v);
   if (size === 0 || (size >= min && size <= max)) return v;
@@ -90,8 +90,8 @@ function requirePlausible(v: number, kind: QuantityKind, argument: string, value
   };
   const message =
     size > max
-      ? `${argument} of ${value} ${unit} is beyond any workshop size (at most ${inUnit(max)})`
-      : `${argument} of ${value} ${unit} is too small to measure in a workshop (at least ${inUnit(min)}, or 0)`;
+      ? `${argument} is beyond any workshop size (at most ${inUnit(max)})`
+      : `${argument} is too small to measure in a workshop (at least ${inUnit(min)}, or 0)`;
   throw new MathsInputError(argument, message, 'out-of-range');
 }
 
@@ -123,11 +123,11 @@ export function siValue(input: unknown, kind: QuantityKind, argument: string): n
   const parsed = parseUnit(unit, argument);
   const si = math.unit(siUnits[kind]);
   if (parsed.equalBase(si)) {
-    return requirePlausible(math.unit(n, unit as string).toNumber(siUnits[kind]), kind, argument, n, unit as string);
+    return requirePlausible(math.unit(n, unit as string).toNumber(siUnits[kind]), kind, argument, unit as string);
   }
   // A rotational speed may also be given as an angular velocity (rad/s, deg/s): one cycle per revolution.
   if (kind === 'rotationalSpeed' && parsed.equalBase(math.unit('rad/s'))) {
-    return requirePlausible(math.unit(n, unit as string).toNumber('cycle/s'), kind, argument, n, unit as string);
+    return requirePlausible(math.unit(n, unit as string).toNumber('cycle/s'), kind, argument, unit as string);
   }
   throw new MathsInputError(
     argument,
