@@ -196,7 +196,8 @@ export function followUnits(
       for (const [control, measure, start, roundAllowed] of fields()) {
         const text = control.value;
         let out = text;
-        const back = memory?.system === next && memory.converted.get(control) === text ? memory.typed.get(control) : undefined;
+        // Back to the system it was typed in, with the same figure (even if "1.37795" became "1.377950"): what was typed.
+        const back = memory?.system === next && sameFigure(memory.converted.get(control), text) ? memory.typed.get(control) : undefined;
         if (back !== undefined) {
           out = back;
         } else if (start !== undefined && text === start[from] && (roundAllowed?.() ?? true)) {
@@ -214,6 +215,13 @@ export function followUnits(
     });
   });
   return current.asReadonly();
+}
+
+/** Two field texts that read as the same number (never true for blank or refused text). */
+function sameFigure(a: string | undefined, b: string): boolean {
+  if (a === undefined) return false;
+  const x = figure(a);
+  return x !== undefined && Number.isFinite(x) && x === figure(b);
 }
 
 /** A figure for a field: from a machine's specification (value and its unit), or a plain number. */
