@@ -518,7 +518,7 @@ describe('WorkshopMaths', () => {
       const square = await card('Squareness from a feeler gap');
       await square.fill({ 'Feeler gap': '0.05', 'Height of the square': '150', 'Allowed gap': '0.05', 'Over a length of': '' });
       const text = await square.resultsText();
-      expect(text).toContain('Enter the length your allowed gap is measured over (such as 100 mm) to see the verdict.');
+      expect(text).toContain('Enter the length your allowed gap is measured over to see the verdict.');
       expect(text).not.toContain('Enter the over a length of');
     });
 

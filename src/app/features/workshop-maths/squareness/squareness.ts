@@ -41,7 +41,7 @@ export class Squareness {
     'tolerance.over': {
       control: this.c.over,
       label: 'Over a length of',
-      waiting: 'Enter the length your allowed gap is measured over (such as 100 mm) to see the verdict.',
+      waiting: 'Enter the length your allowed gap is measured over to see the verdict.',
     },
   };
 
