@@ -1,4 +1,4 @@
-import { callMathsFunction, isMathsFunctionName, MathsInputError, quantity, valueIn, type Quantity } from '../maths';
+import { callMathsFunction, isAbove, isBelow, isMathsFunctionName, MathsInputError, quantity, textBeside, valueIn, type Quantity } from '../maths';
 import type { Bound, ComputedField, Limits, Step, StepInput } from '../schema';
 
 // Evaluates one step's entries against its limits and works out its computed values, with the
@@ -136,12 +136,16 @@ export function resolveLimits(limits: Limits | undefined, spec: MachineSpec, uni
   return { min: resolveBound(limits.min, spec, unit), max: resolveBound(limits.max, spec, unit), unit };
 }
 
-/** Within limits, allowing for the rounding of the figure as shown. */
-export function withinLimits(value: number, limits: ResolvedLimits | undefined, decimals = 6): boolean {
+/**
+ * Within limits, judged on the raw value as entered or worked out: never on the figure as rounded
+ * for the screen (0.1047 is over a 0.10 maximum even where two decimals would show "0.10").
+ * Only float noise from unit conversion is forgiven.
+ */
+export function withinLimits(value: number, limits: ResolvedLimits | undefined): boolean {
   if (!limits) return true;
-  const slack = 0.5 * 10 ** -decimals;
-  if (limits.min !== undefined && value < limits.min - slack) return false;
-  if (limits.max !== undefined && value > limits.max + slack) return false;
+  if (!Number.isFinite(value)) return false;
+  if (limits.min !== undefined && isBelow(value, limits.min)) return false;
+  if (limits.max !== undefined && isAbove(value, limits.max)) return false;
   return true;
 }
 
@@ -161,7 +165,7 @@ function judgeInput(input: StepInput, values: EntryValues, spec: MachineSpec): I
     case 'number': {
       const limits = resolveLimits(input.limits, spec, input.unit);
       if (!limits) return { id: input.id, outcome: 'none' };
-      const ok = withinLimits(Number(value), limits, input.decimals);
+      const ok = withinLimits(Number(value), limits);
       return { id: input.id, outcome: ok ? 'pass' : 'fail', limits, message: ok ? undefined : limitMessage(limits) };
     }
     case 'choice':
@@ -216,8 +220,13 @@ function compute(field: ComputedField, scope: Scope): ComputedResult {
     const value = isQuantity(out) ? (field.unit ? valueIn(out, field.unit) : out.value) : out;
     const unit = isQuantity(out) ? (field.unit ?? out.unit) : field.unit;
     const limits = resolveLimits(field.limits, scope.spec, unit);
-    const outcome: Outcome = limits ? (withinLimits(value, limits, field.decimals) ? 'pass' : 'fail') : 'none';
-    const display = `${value.toFixed(field.decimals)}${unit ? ' ' + unit : ''}`;
+    if (!Number.isFinite(value)) {
+      const error = { argument: 'result', message: 'these figures give no finite result; check each of them' };
+      return { ...base, unit, value: null, display: '—', outcome: 'fail', limits, error, detail: result };
+    }
+    const outcome: Outcome = limits ? (withinLimits(value, limits) ? 'pass' : 'fail') : 'none';
+    // Enough decimals that a value past a limit never shows as equal to it.
+    const display = `${textBeside(value, field.decimals, [limits?.min, limits?.max])}${unit ? ' ' + unit : ''}`;
     return { ...base, unit, value, display, outcome, limits, detail: result };
   }
   const value = String(out);

@@ -8,15 +8,17 @@ export interface PulleyPair {
   readonly centreDistance: Quantity;
 }
 
-/** SI diameters and centres, checked so the belt's straight run exists: C > |D − d| ÷ 2. */
+/** SI diameters and centres, checked so the pulleys clear each other: C > (D + d) ÷ 2. */
 function pair(input: PulleyPair): { big: number; small: number; c: number } {
   const a = positiveSi(input.driverPulley, 'length', 'driverPulley');
   const b = positiveSi(input.drivenPulley, 'length', 'drivenPulley');
   const c = positiveSi(input.centreDistance, 'length', 'centreDistance');
-  if (c <= Math.abs(a - b) / 2) {
+  // At or below (D + d) ÷ 2 the pulleys would touch or overlap: no belt drive is laid out so
+  // (a hair of slack so that 225 mm on 150 + 300 mm pulleys counts as touching despite float rounding).
+  if (c <= ((a + b) / 2) * (1 + 1e-12)) {
     throw new MathsInputError(
       'centreDistance',
-      'centreDistance must be more than half the difference of the pulley diameters',
+      'centreDistance must be more than half the sum of the pulley diameters, or the pulleys overlap',
       'out-of-range',
     );
   }

@@ -1,7 +1,7 @@
 import { sectionArea, type CutSection } from './sections';
 import { sources } from './sources';
 import { nonNegativeSi, positiveSi, si, type Quantity } from './units';
-import { finiteNumber, requireList, requireNonNegative, requireObject } from './validate';
+import { finiteNumber, requireAtMost, requireList, requireNonNegative, requireObject } from './validate';
 
 /** Break-in cut area from blade makers' practice: about half feed for the first 50–100 in². */
 export const breakInAreaRange = {
@@ -24,7 +24,7 @@ export function totalCutArea(input: {
   const total = cuts.reduce<number>((sum, raw, i) => {
     const cut = requireObject(raw, `cuts[${i}]`);
     const at = `cuts[${i}].count`;
-    const count = cut['count'] === undefined ? 1 : requireNonNegative(finiteNumber(cut['count'], at), at);
+    const count = cut['count'] === undefined ? 1 : requireAtMost(requireNonNegative(finiteNumber(cut['count'], at), at), 1e6, at);
     return sum + sectionArea(cut['section'] as CutSection, `cuts[${i}].section`).value * count;
   }, 0);
   return si(total, 'area');

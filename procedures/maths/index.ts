@@ -20,3 +20,4 @@ export * from './feeler';
 export * from './descent';
 export * from './break-in';
 export * from './registry';
+export * from './number';

@@ -1,7 +1,7 @@
 import { MathsInputError } from './errors';
 import { sectionArea, tubeDiameters, type TubeSection } from './sections';
 import { positiveSi, si, valueIn, type Quantity } from './units';
-import { finiteNumber, requireList, requireObject, requirePositive } from './validate';
+import { positiveNumber, requireList, requireObject } from './validate';
 
 /** The section the blade cuts, for tooth pitch. */
 export type PitchSection =
@@ -164,5 +164,5 @@ export function toothPitch(input: {
 
 /** A tooth count or teeth per inch: a finite number greater than zero. */
 function positiveCount(x: unknown, argument: string): number {
-  return requirePositive(finiteNumber(x, argument), argument);
+  return positiveNumber(x, argument, 1000);
 }

@@ -1,4 +1,4 @@
-import { finiteNumber, requirePositive } from './validate';
+import { positiveNumber } from './validate';
 import { positiveSi, si, type Quantity } from './units';
 
 /** The belt (and optional gearbox) between motor and wheel. */
@@ -10,9 +10,13 @@ export interface DriveTrain {
   readonly gearboxRatio?: number;
 }
 
-/** Reads a gearbox ratio: a plain number greater than zero, 1 when absent. */
+/**
+ * Reads a gearbox ratio: a plain number greater than zero and at most 10,000, or 1 when the
+ * argument is left out (a drive with no gearbox). Screens that ask for the ratio must show that
+ * default in the field rather than leave it out for a blank field: null is refused as missing.
+ */
 export function gearboxRatioOf(ratio: unknown, argument = 'gearboxRatio'): number {
-  return ratio === undefined ? 1 : requirePositive(finiteNumber(ratio, argument), argument);
+  return ratio === undefined ? 1 : positiveNumber(ratio, argument, 10_000);
 }
 
 /** Wheel speed n = n_motor × (driver Ø ÷ driven Ø) ÷ gearbox ratio; returned in Hz (rev/s). */

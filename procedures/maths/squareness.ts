@@ -31,8 +31,11 @@ export function squarenessError(input: {
 }): SquarenessResult {
   const g = nonNegativeSi(input.gap, 'length', 'gap');
   const h = positiveSi(input.squareHeight, 'length', 'squareHeight');
-  if (g > h) {
-    throw new MathsInputError('gap', 'gap must not be larger than squareHeight', 'out-of-range');
+  // A square and feelers measure small errors: past a tenth of the height (about 5.7°) the gap is
+  // not a squareness reading at all (a gap equal to the height would be 45°). Common practice.
+  if (g > h / 10) {
+    const message = 'gap must be at most a tenth of squareHeight (about 5.7°); a gap that wide means the square is not against the blade';
+    throw new MathsInputError('gap', message, 'out-of-range');
   }
   const slope = g / h;
   const theta = Math.atan(slope);

@@ -53,6 +53,48 @@ const kindWords: Record<QuantityKind, string> = {
   cuttingRate: 'an area per time (e.g. cm^2/min, in^2/min)',
 };
 
+/**
+ * Plausible workshop sizes per kind, in SI: the smallest figure other than zero and the largest.
+ * Generous on purpose (a 100 m length, 120,000 rpm, 1 TPa for a modulus): they exist to refuse
+ * slips of the finger such as 1e308 or a reading typed in the wrong unit by a factor of millions,
+ * which would otherwise reach the screen as Infinity or a 306-digit figure.
+ */
+export const plausibleSi: Record<QuantityKind, { readonly min: number; readonly max: number }> = {
+  length: { min: 1e-7, max: 100 },
+  area: { min: 1e-12, max: 100 },
+  time: { min: 1e-3, max: 1e7 },
+  speed: { min: 1e-9, max: 1000 },
+  rotationalSpeed: { min: 1e-4, max: 2000 },
+  force: { min: 1e-4, max: 1e7 },
+  stress: { min: 1e-3, max: 1e12 },
+  angle: { min: 1e-12, max: 2 * Math.PI },
+  cuttingRate: { min: 1e-12, max: 1 },
+};
+
+/** A figure for a message: six significant figures, never exponent notation for workshop sizes. */
+function sig(n: number): string {
+  return String(Number(n.toPrecision(6)));
+}
+
+/** Throws unless an SI value (or zero) lies within the kind's plausible workshop sizes. */
+function requirePlausible(v: number, kind: QuantityKind, argument: string, unit: string): number {
+  const { min, max } = plausibleSi[kind];
+  const size = Math.abs(v);
+  if (size === 0 || (size >= min && size <= max)) return v;
+  const inUnit = (x: number) => {
+    try {
+      return `${sig(math.unit(x, siUnits[kind]).toNumber(unit))} ${unit}`;
+    } catch {
+      return `${sig(x)} ${siUnits[kind]}`; // an angular velocity has no plain conversion from Hz
+    }
+  };
+  const message =
+    size > max
+      ? `${argument} is beyond any workshop size (at most ${inUnit(max)})`
+      : `${argument} is too small to measure in a workshop (at least ${inUnit(min)}, or 0)`;
+  throw new MathsInputError(argument, message, 'out-of-range');
+}
+
 /** Parses a unit string with mathjs; refuses strings that carry a number of their own. */
 export function parseUnit(unit: unknown, argument: string): Unit {
   if (typeof unit !== 'string' || unit.trim() === '') {
@@ -81,11 +123,11 @@ export function siValue(input: unknown, kind: QuantityKind, argument: string): n
   const parsed = parseUnit(unit, argument);
   const si = math.unit(siUnits[kind]);
   if (parsed.equalBase(si)) {
-    return math.unit(n, unit as string).toNumber(siUnits[kind]);
+    return requirePlausible(math.unit(n, unit as string).toNumber(siUnits[kind]), kind, argument, unit as string);
   }
   // A rotational speed may also be given as an angular velocity (rad/s, deg/s): one cycle per revolution.
   if (kind === 'rotationalSpeed' && parsed.equalBase(math.unit('rad/s'))) {
-    return math.unit(n, unit as string).toNumber('cycle/s');
+    return requirePlausible(math.unit(n, unit as string).toNumber('cycle/s'), kind, argument, unit as string);
   }
   throw new MathsInputError(
     argument,
@@ -110,8 +152,14 @@ export function nonNegativeSi(input: unknown, kind: QuantityKind, argument: stri
   return requireNonNegative(siValue(input, kind, argument), argument, shown(input));
 }
 
-/** Wraps an SI number as a quantity of the given kind. */
+/**
+ * Wraps an SI number as a quantity of the given kind. Every result of the maths is built here, so
+ * a result that is not a finite number (NaN, Infinity) is refused here rather than shown.
+ */
 export function si(value: number, kind: QuantityKind): Quantity {
+  if (!Number.isFinite(value)) {
+    throw new MathsInputError('result', 'these figures give no finite result; check each of them', 'not-finite');
+  }
   return { value, unit: siUnits[kind] };
 }
 

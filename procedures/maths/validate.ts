@@ -32,9 +32,18 @@ export function requireNonNegative(value: number, argument: string, shown = Stri
   return value;
 }
 
-/** A finite number greater than zero (ratios, tooth counts). */
-export function positiveNumber(x: unknown, argument: string): number {
-  return requirePositive(finiteNumber(x, argument), argument);
+/** Throws unless |value| ≤ max: a plain number (a ratio, a count) no workshop would see beyond. */
+export function requireAtMost(value: number, max: number, argument: string): number {
+  if (Math.abs(value) > max) {
+    const message = `${argument} of ${value} is beyond any workshop figure (at most ${max})`;
+    throw new MathsInputError(argument, message, 'out-of-range');
+  }
+  return value;
+}
+
+/** A finite number greater than zero and at most `max` (ratios, tooth counts). */
+export function positiveNumber(x: unknown, argument: string, max = 1e6): number {
+  return requireAtMost(requirePositive(finiteNumber(x, argument), argument), max, argument);
 }
 
 /** Returns x as a plain object, or throws naming the argument. */

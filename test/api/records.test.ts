@@ -194,6 +194,26 @@ describe('running a record', () => {
   });
 });
 
+describe('readings no gauge could give', () => {
+  test('when a reading is 1e400 (Infinity once parsed) or 1e308 kgf, then it is refused at #/values/reading and nothing is stored', async () => {
+    const record = await startRecord();
+    const body = JSON.stringify(entry('tension', { reading: 800 })).replace('"reading":800', '"reading":1e400');
+    const infinite = await request(app).post(`/api/records/${record.id}/entries`).set(as('trainee')).set('content-type', 'application/json').send(body);
+    assert.equal(expectProblem(infinite, 400).errors?.[0]?.pointer, '#/values/reading');
+    const huge = expectProblem(await request(app).post(`/api/records/${record.id}/entries`).set(as('trainee')).send(entry('tension', { reading: 1e308 })), 400);
+    assert.equal(huge.errors?.[0]?.pointer, '#/values/reading');
+    assert.match(huge.errors?.[0]?.detail ?? '', /beyond any workshop reading/);
+    assert.equal(await StepEntry.count({ where: { recordId: record.id } }), 0);
+  });
+
+  test('when a reading is an ordinary 800 kgf, then it is stored as typed', async () => {
+    const record = await startRecord();
+    await request(app).post(`/api/records/${record.id}/entries`).set(as('trainee')).send(entry('tension', { reading: 800 })).expect(201);
+    const row = await StepEntry.findOne({ where: { recordId: record.id } });
+    assert.equal(row!.values['reading'], 800);
+  });
+});
+
 describe('witnessing a powered step', () => {
   const powered = (witness?: { email: string; password: string }) => entry('track', { clear: true }, witness ? { witness } : {});
 

@@ -38,6 +38,12 @@ describe('V-belt geometry', () => {
     nearIn(beltSpan({ driverPulley: q(4, 'in'), drivenPulley: q(4, 'in'), centreDistance: q(20, 'in') }), 'in', 20, 1e-12);
   });
 
+  test('when the centres are at half the sum of the diameters (the pulleys touch), then the error names centreDistance (CHECKS.md, V-belts: the open-belt formula needs pulleys clear of each other, from memory)', () => {
+    throwsFor(() => openBeltLength({ ...pulleys, centreDistance: q(225, 'mm') }), 'centreDistance', 'out-of-range');
+    throwsFor(() => beltSpan({ ...pulleys, centreDistance: q(200, 'mm') }), 'centreDistance', 'out-of-range');
+    nearIn(beltSpan({ ...pulleys, centreDistance: q(226, 'mm') }), 'mm', Math.sqrt(226 ** 2 - 75 ** 2), 1e-9);
+  });
+
   test('when the centres are closer than half the diameter difference, then the error names centreDistance', () => {
     throwsFor(() => beltSpan({ ...pulleys, centreDistance: q(70, 'mm') }), 'centreDistance', 'out-of-range');
   });

@@ -7,10 +7,13 @@ const FORMULA = 'CHECKS.md, Squareness (θ = atan(g/h); per-100-mm error = 100·
 const TEST_CUT = 'horizontal bandsaw manual, test-cut acceptance: 0.003 in per inch ≈ 0.30 mm per 100 mm';
 
 describe('squareness', () => {
-  test(`when the gap equals the square height, then 45° and 100 mm per 100 mm (${FORMULA}; identity atan 1 = 45°)`, () => {
-    const r = squarenessError({ gap: q(100, 'mm'), squareHeight: q(100, 'mm') });
-    near(r.degrees, 45, 1e-12);
-    nearIn(r.errorPer100mm, 'mm', 100, 1e-9);
+  test(`when the gap equals the square height, then it is refused on the gap rather than shown as 45° (${FORMULA}; atan 1 = 45° is no squareness reading, common practice)`, () => {
+    throwsFor(() => squarenessError({ gap: q(100, 'mm'), squareHeight: q(100, 'mm') }), 'gap', 'out-of-range');
+  });
+
+  test(`when the gap is a tenth of the square height, then it is still worked out: 5.711° (${FORMULA}; atan 0.1 = 5.7106°, from memory)`, () => {
+    near(squarenessError({ gap: q(10, 'mm'), squareHeight: q(100, 'mm') }).degrees, 5.7106, 0.0001);
+    throwsFor(() => squarenessError({ gap: q(10.01, 'mm'), squareHeight: q(100, 'mm') }), 'gap', 'out-of-range');
   });
 
   test(`when a 0.1 mm leaf fits at the top of a 100 mm square, then 0.1 mm per 100 mm and 3.44′ (${FORMULA}; atan 0.001 = 0.0573° × 60)`, () => {

@@ -85,18 +85,28 @@ describe('engine: limits from the machine specification', () => {
     assert.equal(c.unit, 'in');
     assert.ok(Math.abs(c.limits!.min! - 2942 / 25.4) < 1e-9);
     assert.ok(Math.abs((c.value as number) - (Math.PI * 300 + 2000) / 25.4) < 1e-9);
-    assert.equal(c.outcome, 'pass');
+    // 2,942.48 mm worked out (US Navy training manual: L = π·D + 2·C) is past a 2,942 mm limit on the raw value.
+    assert.equal(c.outcome, 'fail');
+    const exact = evaluateStep(lengthStep, {}, { ...spec, bladeLengthMm: Math.PI * 300 + 2000 }).computed[0]!;
+    assert.equal(exact.outcome, 'pass');
   });
 
   test('when limits are plain numbers, then they are taken in the display unit as written', () => {
     assert.deepEqual(resolveLimits({ min: 1, max: 3 }, spec, 'mm/s'), { min: 1, max: 3, unit: 'mm/s' });
   });
 
-  test('when a reading rounds to the limit as shown, then it passes; just past the rounding, it fails', () => {
+  test('when a reading is past its limit by less than its shown rounding, then it fails all the same (limits are judged on the raw value)', () => {
     const limits = { max: 0.12, unit: 'mm' };
-    assert.equal(withinLimits(0.124, limits, 2), true);
-    assert.equal(withinLimits(0.126, limits, 2), false);
-    assert.equal(withinLimits(0.1201, limits, 4), false);
+    assert.equal(withinLimits(0.12, limits), true);
+    assert.equal(withinLimits(0.124, limits), false);
+    assert.equal(withinLimits(0.1201, limits), false);
+    assert.equal(withinLimits(0.1199, limits), true);
+    assert.equal(withinLimits(0.119, { min: 0.12 }), false);
+  });
+
+  test('when 0.1 mm in inches comes back through a unit conversion, then float noise alone does not fail it', () => {
+    const max = 0.1 / 25.4;
+    assert.equal(withinLimits((0.1 / 25.4) * (1 + 1e-13), { max, unit: 'in' }), true);
   });
 });
 
@@ -164,6 +174,32 @@ describe('engine: computed values', () => {
     assert.equal(e.computed[0]!.outcome, 'pass');
     assert.equal(e.computed[1]!.display, '100 um');
     assert.equal(e.computed[1]!.outcome, 'none');
+  });
+
+  test('when 0.1047 mm fits at the top of a 100 mm square, then it fails the 0.10 limit and shows "0.105 mm", never "0.10 mm" (CHECKS.md, Squareness: per-100-mm error = 100·g/h)', () => {
+    const e = evaluateStep(squareStep, { gap: 0.1047, height: 100 }, spec);
+    assert.equal(e.computed[0]!.outcome, 'fail');
+    assert.equal(e.computed[0]!.display, '0.105 mm');
+    assert.equal(e.outOfLimits, true);
+  });
+
+  test('when the error is over the limit by a hair (0.10004 mm per 100 mm), then it is shown with enough decimals to differ: "0.10004 mm" (CHECKS.md, Squareness)', () => {
+    const e = evaluateStep(squareStep, { gap: 0.10004, height: 100 }, spec);
+    assert.equal(e.computed[0]!.outcome, 'fail');
+    assert.equal(e.computed[0]!.display, '0.10004 mm');
+  });
+
+  test('when a reading is past its limit by less than its decimals show, then the reading fails (0.1201 mm against 0.08–0.12 mm)', () => {
+    const s = makeStep({ inputs: [{ id: 'c', type: 'number', label: 'Clearance', unit: 'mm', decimals: 2, limits: { min: { $spec: 'guideClearanceMm.min', unit: 'mm' }, max: { $spec: 'guideClearanceMm.max', unit: 'mm' } } }] });
+    assert.equal(evaluateStep(s, { c: 0.1201 }, spec).inputs[0]!.outcome, 'fail');
+    assert.equal(evaluateStep(s, { c: 0.12 }, spec).inputs[0]!.outcome, 'pass');
+  });
+
+  test('when a reading is 1e308 mm, then the maths refuses it by the input it fills, never an Infinity result', () => {
+    const e = evaluateStep(squareStep, { gap: 0.1, height: 1e308 }, spec);
+    assert.equal(e.computed[0]!.value, null);
+    assert.equal(e.computed[0]!.error?.argument, 'squareHeight');
+    assert.match(e.computed[0]!.display, /^—$/);
   });
 
   test('when the gap is larger than the square, then the maths error becomes a computed error naming "gap", and the step is out of limits', () => {

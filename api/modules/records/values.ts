@@ -1,4 +1,5 @@
 import type { EntryValues } from '../../../procedures/engine';
+import { readingProblem } from '../../../procedures/maths';
 import type { Step } from '../../../procedures/schema';
 import { AppError, type FieldProblem } from '../../lib/errors';
 
@@ -16,6 +17,11 @@ export function checkValues(step: Step, values: Record<string, unknown>): EntryV
     switch (input.type) {
       case 'number':
         if (typeof v !== 'number') wrong(`${input.label}: enter a number in ${input.unit}.`);
+        else {
+          // JSON can carry 1e400 (read as Infinity) or 1e308: refuse what no gauge could read.
+          const problem = readingProblem(v, input.unit, input.label);
+          if (problem) wrong(problem);
+        }
         break;
       case 'choice':
         if (typeof v !== 'string' || !input.options.some((o) => o.value === v)) wrong(`${input.label}: choose one of the options.`);

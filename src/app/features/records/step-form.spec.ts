@@ -11,6 +11,7 @@ import { bladeStress, quantity, valueIn } from '@setwright/maths';
 import type { StepEntryView } from '@setwright/contracts/records';
 import { procedureSchema, type Step } from '@setwright/procedures/schema';
 import { deleteDB } from 'idb';
+import fc from 'fast-check';
 import { problemInterceptor, tokenInterceptor } from '../../core/interceptors';
 import { OFFLINE_DB_NAME, OfflineDb } from '../../core/offline/offline-db';
 import { Outbox } from '../../core/offline/outbox';
@@ -160,6 +161,61 @@ describe('StepForm', () => {
     const note = await loader.getHarness(MatInputHarness.with({ selector: 'textarea' }));
     expect(note).toBeTruthy();
     expect(document.querySelector('.message')!.textContent).toContain('out of limits');
+  });
+
+  it('when "1,200" or "0x4B0" is typed as a reading, then the field says why by name and nothing is judged or sent', async () => {
+    const { loader, http, fixture } = await setUp(procedure.steps[0]!);
+    const reading = await loader.getHarness(ReadingFieldHarness);
+    await reading.setValue('1,200');
+    expect(await reading.getError()).toMatch(/^Gauge reading: "1,200" has a thousands separator/);
+    expect(await reading.getVerdict()).toBe('');
+    expect((fixture.nativeElement as HTMLElement).querySelector('.figure-value')?.textContent ?? '').not.toMatch(/\d/);
+    await reading.setValue('0x4B0');
+    expect(await reading.getError()).toMatch(/^Gauge reading: "0x4B0" is not a decimal number/);
+    await (await loader.getHarness(MatButtonHarness.with({ text: 'Save step' }))).click();
+    http.expectNone('/api/records/r1/entries');
+    expect(document.querySelector('.message')!.textContent).toContain('Put right the readings marked in red');
+  });
+
+  it('when a reading is past any workshop size (99999999 kgf), then it is refused on the field rather than judged', async () => {
+    const { loader } = await setUp(procedure.steps[0]!);
+    const reading = await loader.getHarness(ReadingFieldHarness);
+    await reading.setValue('99999999');
+    expect(await reading.getError()).toContain('beyond any workshop reading');
+    expect(await reading.getVerdict()).toBe('');
+    await reading.setValue('800');
+    expect(await reading.getError()).toBe('');
+    expect(await reading.getVerdict()).toBe('Within limits');
+  });
+
+  it('when random text is typed as a reading, then it is either its plain decimal, judged on the raw figure, or refused with a reason — never a silent number', async () => {
+    const { loader, fixture } = await setUp(procedure.steps[0]!);
+    const reading = await loader.getHarness(ReadingFieldHarness);
+    const control = () => (fixture.componentInstance as unknown as { form: () => { controls: Record<string, { value: unknown }> } }).form().controls['reading']!;
+    const plain = /^\s*[+-]?(\d+\.?\d*|\.\d+)\s*$/;
+    const texts = fc.oneof(
+      fc.string({ maxLength: 12 }),
+      fc.double({ noNaN: true }).map(String),
+      fc.integer({ min: 600, max: 1000 }).map(String),
+      fc.constantFrom('1,200', '0x4B0', '1e3', '800.5', '.5', '-0.05', '899.9999', '900.0001', 'Infinity', ' 800 '),
+    );
+    await fc.assert(
+      fc.asyncProperty(texts, async (text) => {
+        await reading.setValue(text);
+        const value = control().value;
+        const error = await reading.getError();
+        const verdict = await reading.getVerdict();
+        if (text.trim() === '') return value === null && error === '' && verdict === '';
+        if (!plain.test(text) || Math.abs(Number(text)) * 9.80665 > 1e7 || (Number(text) !== 0 && Math.abs(Number(text)) * 9.80665 < 1e-4)) {
+          // Refused: a reason on the field, no number behind it, no verdict.
+          return value === null && error.length > 0 && verdict === '';
+        }
+        // Read as typed, and judged on the raw figure against 700–900 kgf (from the machine's range).
+        const n = Number(text);
+        return value === n && error === '' && verdict === (n >= 700 && n <= 900 ? 'Within limits' : 'Out of limits');
+      }),
+      { numRuns: 40 },
+    );
   });
 
   it('when a noted out-of-limits reading is saved, then the values, the note and a UUID key go to the server', async () => {

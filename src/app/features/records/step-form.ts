@@ -133,6 +133,12 @@ export class StepForm {
     this.message.set(null);
     const evaluation = this.evaluation();
     const form = this.form();
+    const refused = this.step().inputs.some((i) => i.type === 'number' && form.controls[i.id]!.hasError('figure'));
+    if (refused) {
+      form.markAllAsTouched();
+      this.message.set('Put right the readings marked in red first: each says what it cannot read.');
+      return;
+    }
     if (!evaluation || !evaluation.complete) {
       form.markAllAsTouched();
       this.message.set('Fill in every reading and answer first.');

@@ -3,7 +3,7 @@ import { toSignal } from '@angular/core/rxjs-interop';
 import type { AbstractControl, FormGroup } from '@angular/forms';
 import type { ErrorStateMatcher } from '@angular/material/core';
 import { map } from 'rxjs';
-import { displayUnits, MathsInputError, valueIn, type DisplayMeasure, type Quantity, type UnitSystem } from '@setwright/maths';
+import { displayUnits, MathsInputError, parseFigure, valueIn, type DisplayMeasure, type Quantity, type UnitSystem } from '@setwright/maths';
 
 /**
  * Glue between a calculator card's form and the workshop maths library. Nothing here works
@@ -11,10 +11,20 @@ import { displayUnits, MathsInputError, valueIn, type DisplayMeasure, type Quant
  * its refusal (a MathsInputError naming the argument) is put back on the screen.
  */
 
-/** A typed figure: '' → undefined (not filled in yet), '12,5' → 12.5, anything else the maths cannot read → NaN. */
+/**
+ * A typed figure, read by the one strict reader the server uses too (parseFigure): '' → undefined
+ * (not filled in yet), a plain decimal → its number, anything else ("1,200", "0x4B0", "1e3") → NaN,
+ * which the maths refuses on the field; refusalText then says why in the reader's words.
+ */
 export function figure(text: string): number | undefined {
-  const t = text.trim().replace(',', '.');
-  return t === '' ? undefined : Number(t);
+  const parsed = parseFigure(text, '');
+  if (!parsed.ok) return Number.NaN;
+  return parsed.value ?? undefined;
+}
+
+/** A figure that has a stated default in its field (a gearbox ratio of 1): blank is missing, never the default. */
+export function requiredFigure(text: string): number | null {
+  return figure(text) ?? null;
 }
 
 /**
@@ -57,10 +67,17 @@ function midSentence(label: string): string {
 
 /** The library's words for a refusal, told in ours (argument names become field labels). */
 export function refusalText(error: MathsInputError, fields: Fields): string {
+  const field = fields[error.argument];
   switch (error.reason) {
     case 'not-a-number':
-    case 'not-finite':
-      return 'Enter a number, such as 250 or 0.9.';
+    case 'not-finite': {
+      // Say what is wrong with what was typed, in the field's own name.
+      const typed: unknown = field?.control?.value;
+      const parsed = typeof typed === 'string' ? parseFigure(typed, field!.label) : null;
+      if (parsed && !parsed.ok) return parsed.message;
+      if (field) return `${field.label}: type a number, such as 250 or 0.9.`;
+      return 'These figures give no result that can be trusted; check each of them.';
+    }
     case 'zero':
       return 'Must be more than zero.';
     case 'negative':
@@ -154,7 +171,9 @@ export function machineText(value: number, unit: string, measure: DisplayMeasure
  * measure is converted by the library when the system changes. Figures start out metric.
  * Switching straight back restores what was typed, so 300 mm does not come back as 299.999 mm.
  * A field still holding its starting figure takes the other system's round figure instead
- * (100 mm ↔ 4 in), when the card gives one.
+ * (100 mm ↔ 4 in), when the card gives one, and only while its guard allows (a tolerance's length
+ * keeps its exact basis once the allowed gap is typed: 0.10 mm over 100 mm is not 0.0039 in over 4 in).
+ * Only what the field holds is converted, read strictly: typed digits are never re-read in the new unit.
  * Returns the system the fields are in now, which the card reads its figures and shows its results in.
  */
 export function followUnits(
@@ -162,6 +181,7 @@ export function followUnits(
   fields: () => readonly (
     | readonly [AbstractControl<string>, DisplayMeasure]
     | readonly [AbstractControl<string>, DisplayMeasure, Readonly<Record<UnitSystem, string>>]
+    | readonly [AbstractControl<string>, DisplayMeasure, Readonly<Record<UnitSystem, string>>, () => boolean]
   )[],
 ): Signal<UnitSystem> {
   const current = signal<UnitSystem>('metric');
@@ -173,13 +193,14 @@ export function followUnits(
       if (next === from) return;
       const typed = new Map<AbstractControl, string>();
       const converted = new Map<AbstractControl, string>();
-      for (const [control, measure, start] of fields()) {
+      for (const [control, measure, start, roundAllowed] of fields()) {
         const text = control.value;
         let out = text;
-        const back = memory?.system === next && memory.converted.get(control) === text ? memory.typed.get(control) : undefined;
+        // Back to the system it was typed in, with the same figure (even if "1.37795" became "1.377950"): what was typed.
+        const back = memory?.system === next && sameFigure(memory.converted.get(control), text) ? memory.typed.get(control) : undefined;
         if (back !== undefined) {
           out = back;
-        } else if (start !== undefined && text === start[from]) {
+        } else if (start !== undefined && text === start[from] && (roundAllowed?.() ?? true)) {
           out = start[next];
         } else {
           const n = figure(text);
@@ -194,6 +215,13 @@ export function followUnits(
     });
   });
   return current.asReadonly();
+}
+
+/** Two field texts that read as the same number (never true for blank or refused text). */
+function sameFigure(a: string | undefined, b: string): boolean {
+  if (a === undefined) return false;
+  const x = figure(a);
+  return x !== undefined && Number.isFinite(x) && x === figure(b);
 }
 
 /** A figure for a field: from a machine's specification (value and its unit), or a plain number. */

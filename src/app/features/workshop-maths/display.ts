@@ -20,7 +20,8 @@ export type Decimals = number | Readonly<Record<UnitSystem, number>>;
 /** Fixed decimals, never "NaN" or "Infinity" and never "-0.0". */
 export function fixed(n: number, decimals: number): string {
   if (!Number.isFinite(n)) return '—';
-  const text = n.toFixed(decimals);
+  // Twelve significant figures first, so unit-conversion noise (1.374999… in) rounds as the true 1.375.
+  const text = Number(n.toPrecision(12)).toFixed(decimals);
   return /^-0(\.0+)?$/.test(text) ? text.slice(1) : text;
 }
 

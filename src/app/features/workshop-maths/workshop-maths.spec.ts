@@ -33,6 +33,7 @@ import {
   type Quantity,
   type UnitSystem,
 } from '@setwright/maths';
+import fc from 'fast-check';
 import { Session } from '../../core/session';
 import { MathsCardHarness } from './ui/maths-card-harness';
 import { unitChoiceKey } from './unit-choice';
@@ -404,11 +405,157 @@ describe('WorkshopMaths', () => {
     expect(await speed.text()).not.toContain('NaN');
 
     await speed.fill({ 'Wheel diameter': 'three hundred' });
-    expect(await speed.errorsOf('Wheel diameter')).toEqual(['Enter a number, such as 250 or 0.9.']);
+    expect(await speed.errorsOf('Wheel diameter')).toEqual([
+      'Wheel diameter: "three hundred" is not a plain number — type digits with at most one decimal point, such as 1200, 0.05 or -0.05 (no commas, spaces, letters or exponents).',
+    ]);
 
     const belt = await card('Drive belt');
     await belt.fill({ 'Driver pulley Ø': '100', 'Driven pulley Ø': '400', 'Pulley centres': '120' });
-    expect(await belt.errorsOf('Pulley centres')).toEqual(['Pulley centres must be more than half the difference of the pulley diameters.']);
+    expect(await belt.errorsOf('Pulley centres')).toEqual(['Pulley centres must be more than half the sum of the pulley diameters, or the pulleys overlap.']);
     expect(await belt.hasReading('Target deflection')).toBeFalse();
+  });
+
+  describe('figures that can be trusted', () => {
+    /** Figures each card works out from (the cards' own worked examples above), to start every case from. */
+    const GOOD: Record<string, Record<string, string>> = {
+      'Blade speed from the pulleys': { 'Motor speed': '1400', 'Driver pulley Ø': '60', 'Driven pulley Ø': '133', 'Gearbox ratio': '30', 'Wheel diameter': '300' },
+      'Recommended blade speed': { 'Section size': '20' },
+      'Tooth pitch': { Size: '25' },
+      'Blade tension': { 'Blade width': '27', 'Blade thickness': '0.9', 'Gauge reading': '800' },
+      'Blade length and wheel centres': { 'Wheel diameter': '300', 'Centre distance': '1000' },
+      'Drive belt': { 'Driver pulley Ø': '150', 'Driven pulley Ø': '300', 'Pulley centres': '600' },
+      'Squareness from a feeler gap': { 'Feeler gap': '0.05', 'Height of the square': '150', 'Allowed gap': '0.05', 'Over a length of': '100' },
+      'Feeler stack': { 'Gap to make': '0.37' },
+      'Bow-arm descent and cut time': { Drop: '100', 'Time taken': '50', 'Depth of cut': '60', 'Section area': '20', 'Cutting rate': '8' },
+      'Blade break-in': { 'Bar diameter': '50', 'Cuts made': '12' },
+    };
+    const FIELDS = Object.entries(GOOD).flatMap(([heading, figures]) => Object.keys(figures).map((label) => [heading, label] as const));
+    const plain = /^\s*[+-]?(\d+\.?\d*|\.\d+)\s*$/;
+
+    it('when "1,200" or "0x4B0" is typed, then the field refuses it by name and no blade length is shown (never 1102 mm nor a hex 1200)', async () => {
+      const { card } = await setUp();
+      const length = await card('Blade length and wheel centres');
+      await length.fill({ 'Wheel diameter': '300', 'Centre distance': '1,200' });
+      expect((await length.errorsOf('Centre distance'))[0]).toMatch(/^Centre distance: "1,200" has a thousands separator/);
+      expect(await length.hasReading('Blade length')).toBeFalse();
+      await length.fill({ 'Centre distance': '0x4B0' });
+      expect((await length.errorsOf('Centre distance'))[0]).toMatch(/^Centre distance: "0x4B0" is not a decimal number/);
+      expect(await length.hasReading('Blade length')).toBeFalse();
+      await length.fill({ 'Centre distance': '1200' });
+      // US Navy training manual: L = π·D + 2·C = π·300 + 2400 = 3342.5 mm.
+      expect(await (await length.reading('Blade length')).getText()).toBe('3342.5 mm');
+    });
+
+    it('when the gap is 0.1047 mm per 100 mm against an allowed 0.10, then it is "Outside" and the error shows 0.105, and a hair over shows its extra digits (CHECKS.md, Squareness: per-100-mm error = 100·g/h)', async () => {
+      const { card } = await setUp();
+      const square = await card('Squareness from a feeler gap');
+      await square.fill({ 'Feeler gap': '0.1047', 'Height of the square': '100', 'Allowed gap': '0.10' });
+      expect(await (await square.reading('Error')).getText()).toBe('0.105 mm per 100 mm');
+      expect(await (await square.reading('Against your tolerance')).getValue()).toBe('Outside');
+      await square.fill({ 'Feeler gap': '0.10004' });
+      expect(await (await square.reading('Error')).getText()).toBe('0.10004 mm per 100 mm');
+      expect(await (await square.reading('Against your tolerance')).getValue()).toBe('Outside');
+    });
+
+    it('when the gearbox ratio is blank, then the card waits for it by name rather than taking 1', async () => {
+      const { card } = await setUp();
+      const speed = await card('Blade speed from the pulleys');
+      expect(await speed.value('Gearbox ratio')).toBe('1');
+      await speed.fill({ ...GOOD['Blade speed from the pulleys'], 'Gearbox ratio': '' });
+      expect(await speed.hasReading('Blade speed')).toBeFalse();
+      expect(await speed.resultsText()).toContain('Enter the gearbox ratio (1 with no gearbox) to see the result.');
+    });
+
+    it('when 1e308 or a huge plain figure is typed, then the field names itself and no NaN, Infinity or e+ figure appears', async () => {
+      const { card } = await setUp();
+      const length = await card('Blade length and wheel centres');
+      await length.fill({ 'Wheel diameter': '1e308', 'Centre distance': '1000' });
+      expect((await length.errorsOf('Wheel diameter'))[0]).toContain('exponent');
+      await length.fill({ 'Wheel diameter': '1' + '0'.repeat(300) });
+      expect((await length.errorsOf('Wheel diameter'))[0]).toBe('Wheel diameter is beyond any workshop size (at most 100000 mm).');
+      expect(await length.text()).not.toMatch(/NaN|Infinity|e\+/);
+    });
+
+    it('when the gap equals the square height, or belt centres let the pulleys overlap, then the figure is refused on its field', async () => {
+      const { card } = await setUp();
+      const square = await card('Squareness from a feeler gap');
+      await square.fill({ 'Feeler gap': '100', 'Height of the square': '100' });
+      expect((await square.errorsOf('Feeler gap'))[0]).toContain('at most a tenth of height of the square');
+      expect(await square.hasReading('Out of square by')).toBeFalse();
+      const belt = await card('Drive belt');
+      await belt.fill({ 'Driver pulley Ø': '150', 'Driven pulley Ø': '300', 'Pulley centres': '225' });
+      expect((await belt.errorsOf('Pulley centres'))[0]).toContain('or the pulleys overlap');
+      expect(await belt.hasReading('Span')).toBeFalse();
+    });
+
+    it('when "35" is typed, the units are toggled and "0" is typed after, then the field still means 35 mm (converted, never re-read)', async () => {
+      const { card, units } = await setUp();
+      const length = await card('Blade length and wheel centres');
+      await length.fill({ 'Wheel diameter': '300', 'Centre distance': '35' });
+      await (await units('Imperial')).check();
+      const input = await length.input('Centre distance');
+      await (await input.host()).sendKeys('0');
+      const text = await input.getValue();
+      expect(Number(text) * 25.4).toBeCloseTo(35, 3);
+      // Back in metric it is what was typed, not 1.37795 in re-read as 34.9999 mm.
+      await (await units('Metric')).check();
+      expect(await length.value('Centre distance')).toBe('35');
+    });
+
+    it('when an allowed gap over 100 mm is toggled to imperial, then the length converts exactly and the verdict stays the same', async () => {
+      const { card, units } = await setUp();
+      const square = await card('Squareness from a feeler gap');
+      // 0.0995 mm per 100 mm is within 0.10 per 100 mm; 0.10 mm over 4 in (101.6 mm) would put it outside.
+      await square.fill({ 'Feeler gap': '0.0995', 'Height of the square': '100', 'Allowed gap': '0.10' });
+      expect(await (await square.reading('Against your tolerance')).getValue()).toBe('Within');
+      await (await units('Imperial')).check();
+      expect(Number(await square.value('Over a length of'))).toBeCloseTo(100 / 25.4, 4);
+      expect(await (await square.reading('Against your tolerance')).getValue()).toBe('Within');
+    });
+
+    it('when a blank card shows its over-a-length field blank, then it asks in plain words', async () => {
+      const { card } = await setUp();
+      const square = await card('Squareness from a feeler gap');
+      await square.fill({ 'Feeler gap': '0.05', 'Height of the square': '150', 'Allowed gap': '0.05', 'Over a length of': '' });
+      const text = await square.resultsText();
+      expect(text).toContain('Enter the length your allowed gap is measured over to see the verdict.');
+      expect(text).not.toContain('Enter the over a length of');
+    });
+
+    it('when a tube is entered, then its cross-section area shows beside the average width of cut (CHECKS.md, Tooth pitch: 4 in × 3 in tube → π/4·(16−9) = 5.50 in²; ÷ 4 in = 1.3744 in, which CHECKS.md quotes from the rounded area as 1.375)', async () => {
+      const { card, units } = await setUp();
+      await (await units('Imperial')).check();
+      const pitch = await card('Tooth pitch');
+      await pitch.choose('Tube');
+      await pitch.fill({ 'Outside Ø': '4', 'Inside Ø': '3' });
+      expect(await (await pitch.reading('Cross-section area')).getText()).toBe('5.50 in²');
+      expect(await (await pitch.reading('Width of cut')).getValue()).toBe('1.374');
+    });
+
+    it('when random text or numbers go into any figure field, then the card shows a finite result or the field a clear error — never a silent number', async () => {
+      const { card } = await setUp();
+      await (await card('Recommended blade speed')).pick('Material', '304 stainless steel');
+      for (const [heading, figures] of Object.entries(GOOD)) await (await card(heading)).fill(figures);
+      const texts = fc.oneof(
+        fc.string({ maxLength: 10 }),
+        fc.double({ noNaN: true }).map(String),
+        fc.constantFrom('1,200', '0x4B0', '1e3', '12,5', '1 200', 'Infinity', '-', '.', '1e308', '9'.repeat(320)),
+      );
+      await fc.assert(
+        fc.asyncProperty(fc.constantFrom(...FIELDS), texts, async ([heading, label], text) => {
+          const c = await card(heading);
+          await c.fill({ [label]: text });
+          const errors = await c.errorsOf(label);
+          const shown = await c.text();
+          const ok = !/NaN|Infinity|e\+|e-\d/.test(await c.resultsText()) && (plain.test(text) || text.trim() === '' || errors.length > 0);
+          await c.fill({ [label]: figures(heading, label) });
+          return ok && shown.length > 0;
+        }),
+        { numRuns: 30 },
+      );
+      function figures(heading: string, label: string): string {
+        return GOOD[heading]![label]!;
+      }
+    });
   });
 });

@@ -8,7 +8,7 @@ import {
   type CutSection,
   type UnitSystem,
 } from '@setwright/maths';
-import { calculation, convertedText, figure, followUnits, formValue, qty, unitOf, type Fields } from '../calculation';
+import { calculation, convertedText, followUnits, requiredFigure, formValue, qty, unitOf, type Fields } from '../calculation';
 import { CARD_KIT } from '../card-kit';
 import { fieldUnit, fixed, shown } from '../display';
 import { WORKINGS } from '../formulas';
@@ -69,8 +69,8 @@ export class BreakIn {
       v.shape === 'round'
         ? { shape: 'round', diameter: qty(v.diameter, length) }
         : { shape: 'rectangle', width: qty(v.width, length), height: qty(v.height, length) };
-    // An empty count would read as one cut to the library; ask for the number instead.
-    const areaCut = totalCutArea({ cuts: [{ section, count: figure(v.cuts) ?? Number.NaN }] });
+    // An empty count would read as one cut to the library; ask for the number instead (null is missing).
+    const areaCut = totalCutArea({ cuts: [{ section, count: requiredFigure(v.cuts) as number }] });
     const r = breakInRemaining({ areaCut, breakInArea: qty(v.breakInArea, unitOf('area', system)) });
     return {
       remaining: shown(r.remaining, 'area', system, 0),

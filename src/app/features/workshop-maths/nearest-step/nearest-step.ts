@@ -3,7 +3,7 @@ import { FormBuilder } from '@angular/forms';
 import { nearestSpeedStep, speedSteps, type Quantity, type SpeedTable, type UnitSystem } from '@setwright/maths';
 import {
   calculation,
-  figure,
+  requiredFigure,
   fillFromMachine,
   followUnits,
   formValue,
@@ -61,7 +61,11 @@ export class NearestStep {
     const fields: Record<string, Fields[string]> = {
       recommended: { control: this.c.recommended, label: 'Recommended speed' },
       motorSpeed: { control: this.c.motorSpeed, label: 'Motor speed' },
-      gearboxRatio: { control: this.c.gearboxRatio, label: 'Gearbox ratio' },
+      gearboxRatio: {
+      control: this.c.gearboxRatio,
+      label: 'Gearbox ratio',
+      waiting: 'Enter the gearbox ratio (1 with no gearbox) to see the result.',
+    },
       wheelDiameter: { control: this.c.wheelDiameter, label: 'Wheel diameter' },
       steps: { control: null, label: 'Steps', waiting: 'Add at least one speed step.' },
     };
@@ -80,7 +84,7 @@ export class NearestStep {
     const table: SpeedTable = {
       motorSpeed: qty(v.motorSpeed, 'rpm'),
       wheelDiameter: qty(v.wheelDiameter, length),
-      gearboxRatio: figure(v.gearboxRatio),
+      gearboxRatio: requiredFigure(v.gearboxRatio) as number,
       steps: v.steps.map((s, i) => ({
         label: s.label || `${i + 1}`,
         driverPulley: qty(s.driver, length),

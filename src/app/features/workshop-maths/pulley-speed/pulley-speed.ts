@@ -1,7 +1,7 @@
 import { ChangeDetectionStrategy, Component, effect, inject, input, signal, untracked } from '@angular/core';
 import { FormBuilder } from '@angular/forms';
 import { wheelSurfaceSpeed, type UnitSystem } from '@setwright/maths';
-import { calculation, figure, fillFromMachine, followUnits, formValue, qty, unitOf, type Fields } from '../calculation';
+import { calculation, fillFromMachine, requiredFigure, followUnits, formValue, qty, unitOf, type Fields } from '../calculation';
 import { CARD_KIT } from '../card-kit';
 import { fieldUnit, shown } from '../display';
 import { WORKINGS } from '../formulas';
@@ -40,7 +40,11 @@ export class PulleySpeed {
     motorSpeed: { control: this.c.motorSpeed, label: 'Motor speed' },
     driverPulley: { control: this.c.driverPulley, label: 'Driver pulley Ø' },
     drivenPulley: { control: this.c.drivenPulley, label: 'Driven pulley Ø' },
-    gearboxRatio: { control: this.c.gearboxRatio, label: 'Gearbox ratio' },
+    gearboxRatio: {
+      control: this.c.gearboxRatio,
+      label: 'Gearbox ratio',
+      waiting: 'Enter the gearbox ratio (1 with no gearbox) to see the result.',
+    },
     wheelDiameter: { control: this.c.wheelDiameter, label: 'Wheel diameter' },
   };
 
@@ -52,7 +56,7 @@ export class PulleySpeed {
       motorSpeed: qty(v.motorSpeed, 'rpm'),
       driverPulley: qty(v.driverPulley, length),
       drivenPulley: qty(v.drivenPulley, length),
-      gearboxRatio: figure(v.gearboxRatio),
+      gearboxRatio: requiredFigure(v.gearboxRatio) as number,
       wheelDiameter: qty(v.wheelDiameter, length),
     });
     return {

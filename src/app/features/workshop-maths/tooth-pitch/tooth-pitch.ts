@@ -1,6 +1,6 @@
 import { ChangeDetectionStrategy, Component, inject, input } from '@angular/core';
 import { FormBuilder } from '@angular/forms';
-import { toothPitch, type PitchChoice, type PitchSection, type UnitSystem } from '@setwright/maths';
+import { sectionArea, toothPitch, type PitchChoice, type PitchSection, type UnitSystem } from '@setwright/maths';
 import { calculation, followUnits, formValue, optionalQty, qty, unitOf, type Fields } from '../calculation';
 import { CARD_KIT } from '../card-kit';
 import { fieldUnit, fixed, shown } from '../display';
@@ -79,6 +79,8 @@ export class ToothPitch {
       };
     };
     return {
+      // A tube's width of cut is its area ÷ its outside Ø: the area is shown beside it to check by hand.
+      area: section.shape === 'tube' ? shown(sectionArea(section), 'area', system, 2) : null,
       width: shown(r.widthOfCut, 'length', system, { metric: 1, imperial: 3 }),
       range: { value: `${fixed(r.minTpi, 1)}–${fixed(r.maxTpi, 1)}`, unit: 'TPI' },
       constant: choice(r.constant),

@@ -9,6 +9,7 @@ export class ReadingFieldHarness extends ComponentHarness {
   private readonly badge = this.locatorForOptional('.badge .verdict');
   private readonly hint = this.locatorForOptional('mat-hint');
   private readonly label = this.locatorFor('mat-label');
+  private readonly errorEl = this.locatorForOptional('mat-error');
 
   async getLabel(): Promise<string> {
     return (await this.label()).text();
@@ -25,6 +26,11 @@ export class ReadingFieldHarness extends ComponentHarness {
   async getVerdict(): Promise<string> {
     const badge = await this.badge();
     return badge ? (await badge.text()).trim() : '';
+  }
+  /** The reason shown under the field when what was typed is refused, or ''. */
+  async getError(): Promise<string> {
+    const error = await this.errorEl();
+    return error ? (await error.text()).trim() : '';
   }
   async getLimits(): Promise<string> {
     const hint = await this.hint();

@@ -1,14 +1,21 @@
 import { ChangeDetectionStrategy, Component, computed, input } from '@angular/core';
-import { ReactiveFormsModule, type FormControl } from '@angular/forms';
+import { ReactiveFormsModule, type AbstractControl, type FormControl } from '@angular/forms';
+import type { ErrorStateMatcher } from '@angular/material/core';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
 import type { InputResult } from '@setwright/procedures/engine';
+import { StrictNumber } from './strict-number';
+
+/** A refused figure shows its reason as soon as it is typed, not only after the field is left. */
+const AS_TYPED: ErrorStateMatcher = {
+  isErrorState: (control: AbstractControl | null) => !!control && control.invalid && (control.dirty || control.touched),
+};
 
 /** A reading taken at the saw: a number with its unit, its limits, and whether it is within them, at a glance. */
 @Component({
   selector: 'sw-reading-field',
-  imports: [ReactiveFormsModule, MatFormFieldModule, MatInputModule, MatIconModule],
+  imports: [ReactiveFormsModule, MatFormFieldModule, MatInputModule, MatIconModule, StrictNumber],
   templateUrl: './reading-field.html',
   styleUrl: './reading-field.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -21,6 +28,7 @@ export class ReadingField {
   readonly help = input<string>();
   readonly result = input<InputResult>();
   readonly fieldId = input.required<string>();
+  protected readonly asTyped = AS_TYPED;
 
   protected readonly limitsText = computed(() => {
     const l = this.result()?.limits;
