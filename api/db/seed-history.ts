@@ -181,7 +181,7 @@ export function demoHistory(): PlannedRecord[] {
   });
   add({
     name: 's1-speed-1', machine: SAW1, procedure: 'speed-change', day: 145, hour: 10, performer: ELLIS, witness: ROWAN, signer: ROWAN,
-    values: speedChange('low-carbon-steel', 40, '3', 6.5, [95, 95], 'LK-07'),
+    values: speedChange('low-carbon-steel', 40, '3', 6, [95, 95], 'LK-07'),
   });
   add({ name: 's1-descent-1', machine: SAW1, procedure: 'bow-descent', day: 130, hour: 11, performer: NIA, signer: DOUGAL, values: descent(52, 'LK-07') });
   add({ name: 's1-tension-3', machine: SAW1, procedure: 'blade-tension', day: 122, hour: 9, performer: ELLIS, signer: DOUGAL, values: tension(861, 'LK-07') });
@@ -219,7 +219,7 @@ export function demoHistory(): PlannedRecord[] {
   add({ name: 's1-break-in-3', machine: SAW1, procedure: 'blade-break-in', day: 63, hour: 10, performer: ELLIS, witness: DOUGAL, signer: DOUGAL, values: breakIn(510) });
   add({
     name: 's1-speed-3', machine: SAW1, procedure: 'speed-change', day: 55, hour: 10, performer: ELLIS, witness: ROWAN, signer: ROWAN,
-    values: speedChange('aluminium', 40, '4 (fastest)', 7.5, [120, 77], 'LK-11'),
+    values: speedChange('aluminium', 40, '4 (fastest)', 8, [120, 77], 'LK-11'),
   });
   add({ name: 's1-descent-2', machine: SAW1, procedure: 'bow-descent', day: 40, hour: 11, performer: ELLIS, signer: ROWAN, values: descent(48, 'LK-11') });
   add({ name: 's1-tension-9', machine: SAW1, procedure: 'blade-tension', day: 36, hour: 9, performer: NIA, signer: ROWAN, values: tension(880, 'LK-11') });
@@ -241,11 +241,11 @@ export function demoHistory(): PlannedRecord[] {
   add({ name: 's2-blade-1', machine: SAW2, procedure: 'blade-change', day: 172, hour: 9, performer: DOUGAL, witness: ROWAN, signer: ROWAN, values: bladeChange(len2, '3/4', 'LK-21') });
   add({ name: 's2-tension-1', machine: SAW2, procedure: 'blade-tension', day: 172, hour: 11, performer: DOUGAL, signer: ROWAN, values: tension(862, 'LK-21') });
   add({ name: 's2-tracking-1', machine: SAW2, procedure: 'blade-tracking', day: 172, hour: 13, performer: NIA, witness: DOUGAL, signer: DOUGAL, values: tracking('LK-21') });
-  add({ name: 's2-guides-1', machine: SAW2, procedure: 'guide-bearings', day: 170, hour: 10, performer: ELLIS, signer: DOUGAL, values: guides(0.09, 0.09, 'LK-21') });
+  add({ name: 's2-guides-1', machine: SAW2, procedure: 'guide-bearings', day: 170, hour: 10, performer: ELLIS, signer: DOUGAL, values: guides(0.08, 0.08, 'LK-21') });
   add({ name: 's2-descent-1', machine: SAW2, procedure: 'bow-descent', day: 165, hour: 10, performer: ELLIS, signer: DOUGAL, values: descent(50, 'LK-21') });
   add({ name: 's2-tension-2', machine: SAW2, procedure: 'blade-tension', day: 142, hour: 9, performer: ELLIS, signer: DOUGAL, values: tension(866, 'LK-21') });
   add({ name: 's2-square-1', machine: SAW2, procedure: 'blade-squareness', day: 140, hour: 14, performer: ELLIS, witness: DOUGAL, signer: DOUGAL, values: squareness(0.1, 0.13, 'LK-21') });
-  add({ name: 's2-guides-2', machine: SAW2, procedure: 'guide-bearings', day: 135, hour: 10, performer: NIA, signer: ROWAN, values: guides(0.095, 0.09, 'LK-21') });
+  add({ name: 's2-guides-2', machine: SAW2, procedure: 'guide-bearings', day: 135, hour: 10, performer: NIA, signer: ROWAN, values: guides(0.09, 0.08, 'LK-21') });
   add({
     name: 's2-speed-1', machine: SAW2, procedure: 'speed-change', day: 125, hour: 10, performer: NIA, witness: ROWAN, signer: ROWAN,
     values: speedChange('low-carbon-steel', 50, '3', 7, [100, 100], 'LK-21'),
@@ -255,7 +255,7 @@ export function demoHistory(): PlannedRecord[] {
   add({ name: 's2-blade-2', machine: SAW2, procedure: 'blade-change', day: 110, hour: 9, performer: ELLIS, witness: DOUGAL, signer: DOUGAL, values: bladeChange(len2, '3/4', 'LK-21', 'gullet-cracks') , notes: { 'inspect-old': 'The old blade snapped at a cracked gullet during a cut; the pieces were bagged and the break reported.' } });
   add({ name: 's2-tension-4', machine: SAW2, procedure: 'blade-tension', day: 110, hour: 11, performer: ELLIS, signer: DOUGAL, values: tension(864, 'LK-21') });
   add({ name: 's2-tracking-2', machine: SAW2, procedure: 'blade-tracking', day: 110, hour: 13, performer: ELLIS, witness: ROWAN, signer: ROWAN, values: tracking('LK-21') });
-  add({ name: 's2-guides-3', machine: SAW2, procedure: 'guide-bearings', day: 100, hour: 10, performer: ELLIS, signer: DOUGAL, values: guides(0.1, 0.095, 'LK-21') });
+  add({ name: 's2-guides-3', machine: SAW2, procedure: 'guide-bearings', day: 100, hour: 10, performer: ELLIS, signer: DOUGAL, values: guides(0.1, 0.09, 'LK-21') });
   add({ name: 's2-lockout-1', machine: SAW2, procedure: 'isolation-lockout', day: 80, hour: 8, performer: NIA, signer: ROWAN, values: lockout('Nia Castellan', 'LK-21') });
   add({
     name: 's2-descent-3', machine: SAW2, procedure: 'bow-descent', day: 75, hour: 10, performer: ELLIS, signer: DOUGAL, values: descent(29, 'LK-21'),
@@ -263,7 +263,7 @@ export function demoHistory(): PlannedRecord[] {
   });
   add({ name: 's2-descent-4', machine: SAW2, procedure: 'bow-descent', day: 73, hour: 10, performer: DOUGAL, signer: ROWAN, values: descent(46, 'LK-24') });
   add({ name: 's2-tension-5', machine: SAW2, procedure: 'blade-tension', day: 70, hour: 9, performer: NIA, signer: DOUGAL, values: tension(870, 'LK-21') });
-  add({ name: 's2-guides-4', machine: SAW2, procedure: 'guide-bearings', day: 66, hour: 10, performer: NIA, signer: ROWAN, values: guides(0.105, 0.1, 'LK-21') });
+  add({ name: 's2-guides-4', machine: SAW2, procedure: 'guide-bearings', day: 66, hour: 10, performer: NIA, signer: ROWAN, values: guides(0.1, 0.1, 'LK-21') });
   add({
     name: 's2-speed-2', machine: SAW2, procedure: 'speed-change', day: 60, hour: 10, performer: ELLIS, witness: DOUGAL, signer: DOUGAL,
     values: speedChange('tool-steel', 30, '1 (slowest)', 8, [63, 140], 'LK-21'),
@@ -273,14 +273,14 @@ export function demoHistory(): PlannedRecord[] {
   add({ name: 's2-break-in-3', machine: SAW2, procedure: 'blade-break-in', day: 49, hour: 10, performer: NIA, witness: DOUGAL, signer: DOUGAL, values: breakIn(600) });
   add({ name: 's2-square-2', machine: SAW2, procedure: 'blade-squareness', day: 45, hour: 14, performer: DOUGAL, witness: ROWAN, signer: ROWAN, values: squareness(0.12, 0.15, 'LK-24') });
   add({ name: 's2-tension-7', machine: SAW2, procedure: 'blade-tension', day: 33, hour: 9, performer: ELLIS, signer: DOUGAL, values: tension(872, 'LK-21') });
-  add({ name: 's2-guides-5', machine: SAW2, procedure: 'guide-bearings', day: 33, hour: 11, performer: ELLIS, signer: DOUGAL, values: guides(0.11, 0.105, 'LK-21') });
+  add({ name: 's2-guides-5', machine: SAW2, procedure: 'guide-bearings', day: 33, hour: 11, performer: ELLIS, signer: DOUGAL, values: guides(0.11, 0.1, 'LK-21') });
   add({ name: 's2-descent-5', machine: SAW2, procedure: 'bow-descent', day: 28, hour: 10, performer: NIA, signer: DOUGAL, values: descent(45, 'LK-21') });
   add({
     name: 's2-speed-3', machine: SAW2, procedure: 'speed-change', day: 15, hour: 10, performer: NIA, witness: ROWAN, signer: ROWAN,
-    values: speedChange('low-carbon-steel', 50, '3', 7.5, [100, 100], 'LK-21'),
+    values: speedChange('low-carbon-steel', 50, '3', 8, [100, 100], 'LK-21'),
   });
   add({ name: 's2-tracking-void', machine: SAW2, procedure: 'blade-tracking', day: 12, hour: 9, performer: ELLIS, values: tracking('LK-21'), ends: 'voided', stepsDone: 2, voidReason: 'Started on the wrong saw; the tracking was done on the Bay 2 saw instead.' });
-  add({ name: 's2-guides-6', machine: SAW2, procedure: 'guide-bearings', day: 6, hour: 10, performer: ELLIS, values: guides(0.115, 0.11, 'LK-21'), ends: 'ready' });
+  add({ name: 's2-guides-6', machine: SAW2, procedure: 'guide-bearings', day: 6, hour: 10, performer: ELLIS, values: guides(0.11, 0.11, 'LK-21'), ends: 'ready' });
   add({ name: 's2-tracking-now', machine: SAW2, procedure: 'blade-tracking', day: 1, hour: 9, performer: NIA, values: tracking('LK-21'), ends: 'underway', stepsDone: 3 });
   return r;
 }
