@@ -134,7 +134,7 @@ describe('fitting through the blade change', () => {
 
     const res = await request(app).get(`/api/blades/machines/${machine.id}`).set(as('trainee')).expect(200);
     assert.equal(res.body.current.id, fittings[0]!.id);
-    assert.equal(res.body.current.bladeType.label, '27 × 0.9 × 2742 mm · 4/6 TPI · Bi-metal');
+    assert.equal(res.body.current.bladeType.label, '27 × 0.9 × 2742 mm · 6/10 TPI · Bi-metal');
     assert.equal(res.body.current.fittedBy.displayName, 'Blades Trainee');
     assert.equal((await currentBlade(machine.id))!.id, fittings[0]!.id);
     const types = await request(app).get('/api/blades/types').set(as('auditor')).expect(200);

@@ -81,7 +81,7 @@ describe('readings over time on a machine', () => {
   test('when the trends of an unknown machine or a bad id are asked for, then a 404 or a 400 problem comes back', async () => {
     expectProblem(await request(app).get(`/api/machines/${randomUUID()}/trends`).set(as('trainee')), 404);
     const bad = expectProblem(await request(app).get('/api/machines/not-an-id/trends').set(as('trainee')), 400);
-    assert.ok(bad.errors?.some((e) => e.pointer === '#/id'));
+    assert.ok(bad.errors?.some((e) => e.pointer === '#/params/id'));
   });
 });
 

@@ -3,6 +3,7 @@ import { ChangeDetectionStrategy, Component, computed, inject, input, LOCALE_ID,
 import { MatButtonModule } from '@angular/material/button';
 import { MatIconModule } from '@angular/material/icon';
 import { RouterLink } from '@angular/router';
+import { RECORD_STATUS_LABELS } from '@setwright/contracts/records';
 import type { TrendPoint, TrendSeries } from '@setwright/contracts/trends';
 import { scaleLinear, scaleTime } from 'd3-scale';
 import { line } from 'd3-shape';
@@ -42,6 +43,7 @@ export class TrendChart {
   protected readonly view = `0 0 ${W} ${H}`;
   protected readonly plot = { left: M.left, right: W - M.right, top: M.top, bottom: H - M.bottom };
   protected readonly showTable = signal(false);
+  protected readonly statusLabels = RECORD_STATUS_LABELS;
 
   private readonly x = computed(() => {
     const times = this.series().points.map((p) => Date.parse(p.at));
