@@ -49,7 +49,7 @@ describe('TrendChart', () => {
     expect(heights[2]!).toBeLessThan(heights[0]!);
   });
 
-  it('when the table is asked for, then the same readings are listed with their verdicts and their records' states, and the button says it is open', async () => {
+  it('when the table is asked for, then the same readings are listed with their verdicts and their records’ states, and the button says it is open', async () => {
     const { el, fixture, loader } = await render({ ...SERIES, drift: null });
     expect(el.querySelector('[role=note]')).toBeNull();
     const toggle = await loader.getHarness(MatButtonHarness.with({ text: /Show the readings as a table/ }));
