@@ -149,6 +149,12 @@ export async function prepareDatabase(env: Record<string, string>): Promise<void
     const { loadProcedurePacks } = await import('../../api/modules/procedures/loader');
     const loaded = await loadProcedurePacks(sequelize);
     if (loaded.length) say(`loaded procedures: ${loaded.join(', ')}`);
+    // The demo's history needs the approved procedures, so it comes after them.
+    const { seedDemoHistory } = await import('../../api/db/seed-history');
+    const { createLogger } = await import('../../api/lib/logger');
+    const started = Date.now();
+    const { written } = await seedDemoHistory(sequelize, config, createLogger(config.LOG_LEVEL));
+    if (written) say(`wrote the demo workshop's history: ${written} records in ${((Date.now() - started) / 1000).toFixed(1)} s`);
   } finally {
     await sequelize.close();
   }

@@ -40,6 +40,7 @@ const MATRIX: Record<string, Role[] | typeof OPEN> = {
   'PUT /api/machines/:id': ADMIN,
   'PUT /api/machines/:id/schedules': ADMIN,
   'GET /api/machines/:id/photo': EVERYONE,
+  'GET /api/machines/:id/trends': EVERYONE,
   'GET /api/schedules/due': ['trainee', 'competent_person', 'workshop_admin'],
   'POST /api/photos': ['trainee', 'competent_person', 'workshop_admin'],
   'GET /api/photos/:id': EVERYONE,

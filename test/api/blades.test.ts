@@ -117,8 +117,9 @@ describe('blade types and stock', () => {
 describe('fitting through the blade change', () => {
   test('when a blade change is signed off, then the blade it recorded is fitted to the machine from stock, and not before', async () => {
     const machine = await freshMachine('Fitting saw');
-    const type = await stockType('4/6', 'bi-metal', 3);
-    const recordId = await bladeChange(machine.id, { pitch: '4/6', material: 'bi-metal' });
+    // 6/10 at this length: the demo stock list (api/db/seed-history.ts) already holds its 4/6 and 3/4.
+    const type = await stockType('6/10', 'bi-metal', 3);
+    const recordId = await bladeChange(machine.id, { pitch: '6/10', material: 'bi-metal' });
     assert.equal(await BladeFitting.count({ where: { machineId: machine.id } }), 0, 'nothing is fitted until the record is signed off');
     await signOff(recordId);
 
@@ -133,7 +134,7 @@ describe('fitting through the blade change', () => {
 
     const res = await request(app).get(`/api/blades/machines/${machine.id}`).set(as('trainee')).expect(200);
     assert.equal(res.body.current.id, fittings[0]!.id);
-    assert.equal(res.body.current.bladeType.label, '27 × 0.9 × 2742 mm · 4/6 TPI · Bi-metal');
+    assert.equal(res.body.current.bladeType.label, '27 × 0.9 × 2742 mm · 6/10 TPI · Bi-metal');
     assert.equal(res.body.current.fittedBy.displayName, 'Blades Trainee');
     assert.equal((await currentBlade(machine.id))!.id, fittings[0]!.id);
     const types = await request(app).get('/api/blades/types').set(as('auditor')).expect(200);

@@ -4,6 +4,8 @@ import { before, describe, test } from 'node:test';
 import type { Browser, BrowserContext, Locator, Page } from 'playwright-core';
 import request from 'supertest';
 import type { Person } from '../../api/modules/people/repository';
+import { DEMO_MACHINES } from '../../api/db/seed';
+import { Machine } from '../../api/modules/machines/model';
 import { SetupRecord } from '../../api/modules/records/model';
 import { db, makePerson, PASSWORD, testApp } from '../support/api';
 import { axe, launchBrowser, screenshot, signInThroughPage, startServer } from '../support/browser';
@@ -160,6 +162,7 @@ describe('accessibility: axe-core on every main page, keyboard and touch targets
   const contexts = new Map<Who | 'nobody', BrowserContext>();
   let key: string;
   let machineId: string;
+  let demoMachineId: string;
   let signedId: string;
   let readyId: string;
   let witnessRecordId: string;
@@ -181,6 +184,7 @@ describe('accessibility: axe-core on every main page, keyboard and touch targets
     signedId = await maker.signed({ ...o, approver: people.competent });
     readyId = await maker.ready(o);
     machineId = (await SetupRecord.findByPk(signedId))!.machineId;
+    demoMachineId = (await Machine.findOne({ where: { assetTag: DEMO_MACHINES[1]!.assetTag } }))!.id;
 
     // Two records left underway: one at its powered step (the witness dialog), one with every step done (the sign dialog).
     const as = await maker.auth(people.trainee);
@@ -238,6 +242,8 @@ describe('accessibility: axe-core on every main page, keyboard and touch targets
     { who: 'trainee', name: 'Today', path: () => '/today' },
     { who: 'trainee', name: 'Machines', path: () => '/machines' },
     { who: 'trainee', name: 'a machine page', path: () => `/machines/${machineId}` },
+    // The demo's stores saw has six months of readings: its page draws every trend chart.
+    { who: 'competent', name: 'a demo machine page with its reading trends', path: () => `/machines/${demoMachineId}`, ready: (p) => p.locator('sw-trend-chart').first() },
     { who: 'trainee', name: 'the runner', path: () => `/records/${witnessRecordId}`, ready: (p) => p.locator('sw-step-form').first() },
     { who: 'trainee', name: 'Workshop maths', path: () => '/workshop-maths' },
     { who: 'trainee', name: 'Blades', path: () => '/blades' },

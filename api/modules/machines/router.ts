@@ -9,6 +9,7 @@ import { validate, validated } from '../../lib/validate';
 import type { PhotoService } from '../photos/service';
 import { renderLabels } from './labels';
 import type { MachineService } from './service';
+import { machineTrends } from './trends';
 
 const idParams = z.object({ id: z.uuid({ error: 'A machine id is a UUID.' }) });
 type IdParams = z.infer<typeof idParams>;
@@ -54,6 +55,11 @@ export function machinesRouter(machines: MachineService, photos: PhotoService, o
 
   router.get('/:id', allow(...ANY_ROLE), validate({ params: idParams }), async (_req, res) => {
     res.json(await machines.detail(validated<IdParams>(res, 'params').id));
+  });
+
+  // Readings over time, with the limits in force and the drift rule's verdict: anyone who may see the machine page.
+  router.get('/:id/trends', allow(...ANY_ROLE), validate({ params: idParams }), async (_req, res) => {
+    res.json(await machineTrends(validated<IdParams>(res, 'params').id));
   });
 
   router.put('/:id', allow('workshop_admin'), validate({ params: idParams, body: machineRequestSchema }), async (req, res) => {

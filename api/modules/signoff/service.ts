@@ -1,4 +1,4 @@
-import { Op, type Sequelize } from 'sequelize';
+import { Op, type Sequelize, type Transaction } from 'sequelize';
 import {
   SIGNATURE_MEANINGS,
   type AddendumView,
@@ -27,6 +27,38 @@ const withParts = {
     { model: User, as: 'startedBy' },
   ],
 };
+
+/**
+ * The locking half of a sign-off, inside the caller's transaction (the record is already locked and
+ * ready for sign-off): the approved signature, the record hash over its canonical JSON and the link
+ * to the machine's previous signed record. The demo seed signs its history through this too.
+ */
+export async function sealRecord(
+  sequelize: Sequelize,
+  record: SetupRecord,
+  signer: Pick<Person, 'id' | 'displayName'>,
+  signedAt: Date,
+  transaction: Transaction,
+): Promise<void> {
+  // One signer at a time per machine, so the chain never forks.
+  await sequelize.query('SELECT pg_advisory_xact_lock(hashtext(:machine))', { replacements: { machine: record.machineId }, transaction });
+  const previous = await SetupRecord.findOne({
+    where: { machineId: record.machineId, status: 'signed_off' },
+    order: [['signedAt', 'DESC'], ['id', 'DESC']],
+    transaction,
+  });
+  await Signature.create(
+    { recordId: record.id, signerId: signer.id, meaning: 'approved', printedName: signer.displayName, signedAt, stepId: null, entryId: null },
+    { transaction },
+  );
+  const doc = await buildRecordDocument(record.id, transaction);
+  doc.record.status = 'signed_off';
+  doc.record.signedAt = signedAt.toISOString();
+  doc.previousHash = previous?.recordHash ?? null;
+  const recordHash = hashDocument(doc);
+  await record.update({ status: 'signed_off', signedAt, previousHash: doc.previousHash, recordHash }, { transaction });
+  await AuditEvent.create({ action: 'record.signed_off', actorId: signer.id, recordId: record.id, detail: { recordHash, previousHash: doc.previousHash }, at: signedAt }, { transaction });
+}
 
 /** Sign-off by a competent person, the hash chain that locks a record, send-backs, addenda and record checks. */
 export class SignOffService {
@@ -80,25 +112,7 @@ export class SignOffService {
     await this.sequelize.transaction(async (transaction) => {
       const locked = await SetupRecord.findByPk(recordId, { transaction, lock: transaction.LOCK.UPDATE });
       if (locked!.status !== 'ready_for_signoff') throw AppError.conflict('Only a record that is ready for sign-off can be signed off.');
-      // One signer at a time per machine, so the chain never forks.
-      await this.sequelize.query('SELECT pg_advisory_xact_lock(hashtext(:machine))', { replacements: { machine: locked!.machineId }, transaction });
-      const previous = await SetupRecord.findOne({
-        where: { machineId: locked!.machineId, status: 'signed_off' },
-        order: [['signedAt', 'DESC'], ['id', 'DESC']],
-        transaction,
-      });
-      const signedAt = new Date();
-      await Signature.create(
-        { recordId, signerId: person.id, meaning: 'approved', printedName: person.displayName, signedAt, stepId: null, entryId: null },
-        { transaction },
-      );
-      const doc = await buildRecordDocument(recordId, transaction);
-      doc.record.status = 'signed_off';
-      doc.record.signedAt = signedAt.toISOString();
-      doc.previousHash = previous?.recordHash ?? null;
-      const recordHash = hashDocument(doc);
-      await locked!.update({ status: 'signed_off', signedAt, previousHash: doc.previousHash, recordHash }, { transaction });
-      await audit('record.signed_off', person.id, recordId, { recordHash, previousHash: doc.previousHash }, transaction);
+      await sealRecord(this.sequelize, locked!, person, new Date(), transaction);
     });
     // The signature stands whatever happens here: each hook logs its own failures.
     for (const hook of this.afterSignOff) await hook(recordId).catch(() => undefined);

@@ -41,3 +41,22 @@ export const PLACES: readonly Place[] = [
     summary: 'Who has run and been authorised for each procedure, and when it expires.',
   },
 ];
+
+/**
+ * The place a page belongs to: the one whose path is the longest that the address starts with, so
+ * /people/competencies is under Competencies alone and not under People as well.
+ */
+export function placeOf(places: readonly Place[], url: string): string | null {
+  const path = url.split(/[?#]/)[0]!;
+  let best: string | null = null;
+  for (const p of places) {
+    const within = path === p.path || path.startsWith(p.path + '/');
+    if (within && (!best || p.path.length > best.length)) best = p.path;
+  }
+  return best;
+}
+
+/** The runner (one record, /records/:id) is a focused page: the list of places folds away so the step has the width. */
+export function isFocusedPage(url: string): boolean {
+  return /^\/records\/[^/?#]+\/?(?:[?#].*)?$/.test(url);
+}

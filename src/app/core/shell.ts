@@ -7,17 +7,17 @@ import { MatListModule } from '@angular/material/list';
 import { MatMenuModule } from '@angular/material/menu';
 import { MatSidenavModule } from '@angular/material/sidenav';
 import { MatToolbarModule } from '@angular/material/toolbar';
-import { RouterLink, RouterLinkActive, RouterOutlet } from '@angular/router';
-import { map } from 'rxjs';
+import { NavigationEnd, Router, RouterLink, RouterOutlet } from '@angular/router';
+import { filter, map } from 'rxjs';
 import { ROLE_LABELS } from '@setwright/contracts/roles';
 import { ConnectionStatus } from './offline/connection-status';
-import { PLACES } from './places';
+import { isFocusedPage, PLACES, placeOf } from './places';
 import { Session } from './session';
 
 /** The frame around every signed-in page: a toolbar, the places the person may open, and the page. */
 @Component({
   selector: 'sw-shell',
-  imports: [RouterOutlet, RouterLink, RouterLinkActive, MatToolbarModule, MatSidenavModule, MatListModule, MatButtonModule, MatIconModule, MatMenuModule, ConnectionStatus],
+  imports: [RouterOutlet, RouterLink, MatToolbarModule, MatSidenavModule, MatListModule, MatButtonModule, MatIconModule, MatMenuModule, ConnectionStatus],
   templateUrl: './shell.html',
   styleUrl: './shell.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -30,6 +30,19 @@ export class Shell {
   protected readonly wide = toSignal(inject(BreakpointObserver).observe('(min-width: 900px)').pipe(map((s) => s.matches)), {
     initialValue: true,
   });
+  private readonly router = inject(Router);
+  private readonly url = toSignal(
+    this.router.events.pipe(
+      filter((e): e is NavigationEnd => e instanceof NavigationEnd),
+      map((e) => e.urlAfterRedirects),
+    ),
+    { initialValue: this.router.url },
+  );
+  /** One place is marked as the current one: the most specific place the address is in. */
+  protected readonly current = computed(() => placeOf(this.places(), this.url()));
+  /** On the runner the places fold away behind the menu button, even on a wide screen. */
+  protected readonly focused = computed(() => isFocusedPage(this.url()));
+  protected readonly sideBySide = computed(() => this.wide() && !this.focused());
 
   protected signOut() {
     void this.session.signOut();

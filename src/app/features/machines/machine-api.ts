@@ -2,6 +2,7 @@ import { HttpClient } from '@angular/common/http';
 import { inject, Injectable } from '@angular/core';
 import { firstValueFrom } from 'rxjs';
 import type { MachineDetail, MachineListItem, MachineRequestInput } from '@setwright/contracts/machines';
+import type { MachineTrends } from '@setwright/contracts/trends';
 import type { DueList, MachineSchedulesInput, ScheduleView } from '@setwright/contracts/schedules';
 import { ownErrors } from '../../core/session';
 
@@ -16,6 +17,11 @@ export class MachineApi {
 
   get(id: string) {
     return this.http.get<MachineDetail>(`/api/machines/${id}`);
+  }
+
+  /** Each recorded reading over time, with the limits in force and the drift rule's verdict. */
+  trends(id: string) {
+    return this.http.get<MachineTrends>(`/api/machines/${id}/trends`);
   }
 
   due() {

@@ -60,6 +60,7 @@ describe('MachinePage status', () => {
     (await nextRequest(http, (r) => r.url === '/api/procedures' && r.params.get('machineKind') === 'horizontal_bandsaw')).flush(PROCEDURES);
     // People who run procedures keep each one on the tablet: the page's procedure list asks for every version.
     if (roles.includes('trainee') || roles.includes('competent_person')) await answerKeptProcedures(http, PROCEDURES.length);
+    (await nextRequest(http, (r) => r.url === '/api/machines/m1/trends')).flush({ machineId: 'm1', rule: { readings: 5, ahead: 3 }, series: [] });
     await fixture.whenStable();
     return { fixture, http, loader: TestbedHarnessEnvironment.loader(fixture), text: () => (fixture.nativeElement as HTMLElement).textContent!.replace(/\s+/g, ' ') };
   }

@@ -15,11 +15,12 @@ import { MachineApi, openPdf } from './machine-api';
 import { kindLabel, machineFigures } from './machine-figures';
 import { MachinePhoto } from './machine-photo';
 import { MachineStatusBadge } from './machine-status';
+import { ReadingTrends } from './reading-trends';
 
 /** One machine: its state, blade, checks due, the procedures that can be started on it, and its history. */
 @Component({
   selector: 'sw-machine-page',
-  imports: [DatePipe, MatButtonModule, MatIconModule, MatProgressBarModule, RouterLink, MachineStatusBadge, MachinePhoto],
+  imports: [DatePipe, MatButtonModule, MatIconModule, MatProgressBarModule, RouterLink, MachineStatusBadge, MachinePhoto, ReadingTrends],
   templateUrl: './machine-page.html',
   styleUrl: './machine-page.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
