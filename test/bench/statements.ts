@@ -6,12 +6,11 @@
 import { readFileSync, statSync } from 'node:fs';
 import { join } from 'node:path';
 import pg from 'pg';
-import { withBenchServers, type ServerProcess } from './support/processes';
+import { demoTrainee, withBenchServers, type ServerProcess } from './support/processes';
 
 const ROUNDS = Number(process.env['BENCH_ROUNDS'] ?? 100);
 
 await withBenchServers({}, async ({ stack, api, echo }) => {
-  const { DEMO_PEOPLE, DEMO_PASSWORD, DEMO_MACHINES } = await import('../../api/db/seed');
 
   // PostgreSQL logs every statement it runs from here on; the bench counts them per request.
   const admin = new pg.Client({ connectionString: stack.env['DATABASE_ADMIN_URL'] });
@@ -27,13 +26,8 @@ await withBenchServers({}, async ({ stack, api, echo }) => {
     return (text.match(/LOG: {2}(?:statement|execute [^:]*):/g) ?? []).length;
   };
 
-  const trainee = DEMO_PEOPLE.find((p) => p.roles.includes('trainee'))!;
-  const login = await fetch(`${api.url}/api/auth/login`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ email: trainee.email, password: DEMO_PASSWORD }) });
-  const { accessToken } = (await login.json()) as { accessToken: string };
-  const headers = { 'content-type': 'application/json', authorization: `Bearer ${accessToken}` };
-  const machines = (await (await fetch(`${api.url}/api/machines`, { headers })).json()) as { id: string; assetTag: string }[];
-  const machine = machines.find((m) => m.assetTag === DEMO_MACHINES[0]!.assetTag)!;
-  const started = await fetch(`${api.url}/api/records`, { method: 'POST', headers, body: JSON.stringify({ machineId: machine.id, procedureKey: 'blade-tension' }) });
+  const { headers, machineId } = await demoTrainee(api);
+  const started = await fetch(`${api.url}/api/records`, { method: 'POST', headers, body: JSON.stringify({ machineId, procedureKey: 'blade-tension' }) });
   const record = (await started.json()) as { id: string };
 
   interface Probe {

@@ -3,7 +3,7 @@
 // process in the same run.
 // Run: npm run bench:throughput (part of npm run bench). Starts and removes its own database.
 import autocannon from 'autocannon';
-import { withBenchServers, type ServerProcess } from './support/processes';
+import { demoTrainee, withBenchServers, type ServerProcess } from './support/processes';
 
 const DURATION = Number(process.env['BENCH_SECONDS'] ?? 10);
 const CONNECTIONS = 50;
@@ -27,18 +27,12 @@ async function cannon(server: ServerProcess, opts: Partial<autocannon.Options> &
 }
 
 await withBenchServers({ DATABASE_POOL_MAX: '20' }, async ({ api, echo }) => {
-  const { DEMO_PEOPLE, DEMO_PASSWORD, DEMO_MACHINES } = await import('../../api/db/seed');
 
-  const trainee = DEMO_PEOPLE.find((p) => p.roles.includes('trainee'))!;
-  const login = await fetch(`${api.url}/api/auth/login`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ email: trainee.email, password: DEMO_PASSWORD }) });
-  const { accessToken } = (await login.json()) as { accessToken: string };
-  const headers = { 'content-type': 'application/json', authorization: `Bearer ${accessToken}` };
-  const machines = (await (await fetch(`${api.url}/api/machines`, { headers })).json()) as { id: string; assetTag: string }[];
-  const machine = machines.find((m) => m.assetTag === DEMO_MACHINES[0]!.assetTag)!;
+  const { headers, machineId } = await demoTrainee(api);
   // Fifty tablets, each with a record of its own underway.
   const records: string[] = [];
   for (let i = 0; i < CONNECTIONS; i++) {
-    const started = await fetch(`${api.url}/api/records`, { method: 'POST', headers, body: JSON.stringify({ machineId: machine.id, procedureKey: 'blade-tension' }) });
+    const started = await fetch(`${api.url}/api/records`, { method: 'POST', headers, body: JSON.stringify({ machineId, procedureKey: 'blade-tension' }) });
     records.push(((await started.json()) as { id: string }).id);
   }
   let next = 0;

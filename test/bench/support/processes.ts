@@ -122,3 +122,14 @@ export async function withBenchServers(apiEnv: Record<string, string>, run: (s: 
     rmSync(tmp, { recursive: true, force: true });
   }
 }
+
+/** Sign a demo trainee in on the API process; the headers to send, and the first demo saw's id. */
+export async function demoTrainee(api: ServerProcess): Promise<{ headers: Record<string, string>; machineId: string }> {
+  const { DEMO_PEOPLE, DEMO_PASSWORD, DEMO_MACHINES } = await import('../../../api/db/seed');
+  const trainee = DEMO_PEOPLE.find((p) => p.roles.includes('trainee'))!;
+  const login = await fetch(`${api.url}/api/auth/login`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ email: trainee.email, password: DEMO_PASSWORD }) });
+  const { accessToken } = (await login.json()) as { accessToken: string };
+  const headers = { 'content-type': 'application/json', authorization: `Bearer ${accessToken}` };
+  const machines = (await (await fetch(`${api.url}/api/machines`, { headers })).json()) as { id: string; assetTag: string }[];
+  return { headers, machineId: machines.find((m) => m.assetTag === DEMO_MACHINES[0]!.assetTag)!.id };
+}
