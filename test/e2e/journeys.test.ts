@@ -12,7 +12,7 @@ import { ProcedureVersion } from '../../api/modules/procedures/model';
 import { SetupRecord, StepEntry } from '../../api/modules/records/model';
 import { RecordReturn, Signature } from '../../api/modules/signoff/model';
 import { db, makePerson, testApp } from '../support/api';
-import { launchBrowser, screenshot, signInThroughPage, startServer } from '../support/browser';
+import { dialogSettled, launchBrowser, screenshot, signInThroughPage, startServer } from '../support/browser';
 import { approve, fixture } from '../support/procedures';
 import { RecordMaker } from '../support/records';
 
@@ -119,6 +119,7 @@ describe('each role’s journey through Setwright in a real browser', () => {
     await yes(step, 'No ticking, scraping or knocking while it ran');
     await step.getByRole('button', { name: 'Call a witness and save' }).click();
     const dialog = page.getByRole('dialog');
+    await dialogSettled(dialog);
     await dialog.getByLabel('Witness email').fill(competent.email);
     await dialog.getByLabel('Witness password').fill(DEMO_PASSWORD);
     await screenshot(page, 'journey-competent-person-witnesses');

@@ -7,7 +7,7 @@ import { Photo } from '../../api/modules/photos/model';
 import { User } from '../../api/modules/people/model';
 import { SetupRecord, StepEntry } from '../../api/modules/records/model';
 import { db } from '../support/api';
-import { launchBrowser, screenshot, signInThroughPage, startServer } from '../support/browser';
+import { dialogSettled, launchBrowser, screenshot, signInThroughPage, startServer } from '../support/browser';
 
 const trainee = DEMO_PEOPLE.find((p) => p.roles.includes('trainee'))!;
 const witness = DEMO_PEOPLE.find((p) => p.roles.length === 1 && p.roles[0] === 'competent_person')!;
@@ -95,6 +95,7 @@ describe('a trainee runs the blade change at the saw, and a competent person sig
     await screenshot(page, 'runner-powered-step-1024x768');
     await step.getByRole('button', { name: 'Call a witness and save' }).click();
     const dialog = page.getByRole('dialog');
+    await dialogSettled(dialog);
     await dialog.getByLabel('Witness email').fill(witness.email);
     await dialog.getByLabel('Witness password').fill(DEMO_PASSWORD);
     const witnessed = page.waitForResponse((r) => r.url().endsWith('/entries') && r.request().method() === 'POST');

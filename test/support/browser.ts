@@ -3,7 +3,7 @@ import type { Server } from 'node:http';
 import type { AddressInfo } from 'node:net';
 import { join, resolve } from 'node:path';
 import { after } from 'node:test';
-import { chromium, type Browser, type Page } from 'playwright-core';
+import { chromium, type Browser, type Locator, type Page } from 'playwright-core';
 import { createApp } from '../../api/app';
 import { createLogger } from '../../api/lib/logger';
 import { db, ownThrottles, testConfig } from './api';
@@ -41,6 +41,21 @@ export async function launchBrowser(): Promise<Browser> {
   });
   cleanups.push(() => browser.close());
   return browser;
+}
+
+/**
+ * Wait until an opening dialog has taken the focus (Material moves it to the first field once the
+ * open animation ends). Filling fields before that can lose typing to that late focus move.
+ */
+export async function dialogSettled(dialog: Locator): Promise<void> {
+  await dialog.waitFor();
+  // The first field, not the dialog's own container (which may hold the focus on the way). No
+  // named functions inside: the test runner's compiler would wrap them in a helper the page lacks.
+  await dialog.page().waitForFunction(() => {
+    const d = document.querySelector('[role="dialog"]');
+    const a = document.activeElement;
+    return !!d && !!a && a !== d && d.contains(a) && a.matches('input, textarea, select, button');
+  });
 }
 
 /** Save a screenshot as a test artefact under test-results/. */
