@@ -13,7 +13,7 @@ import { findPersonByEmail, type Person } from '../modules/people/repository';
 import { Photo } from '../modules/photos/model';
 import { PhotoService } from '../modules/photos/service';
 import { ProcedureVersion } from '../modules/procedures/model';
-import { SetupRecord, StepEntry } from '../modules/records/model';
+import { machineSnapshot, SetupRecord, StepEntry } from '../modules/records/model';
 import { checkValues } from '../modules/records/values';
 import { AuditEvent, RecordReturn, Signature } from '../modules/signoff/model';
 import { sealRecord } from '../modules/signoff/service';
@@ -346,7 +346,7 @@ async function writeRecord(ctx: Ctx, plan: PlannedRecord): Promise<void> {
         machineId: machine.id,
         procedureVersionId: version.id,
         machineSpec: machine.spec,
-        machineSnapshot: { id: machine.id, name: machine.name, assetTag: machine.assetTag, model: machine.model, location: machine.location },
+        machineSnapshot: machineSnapshot(machine),
         status: 'underway',
         startedById: performer.id,
         createdAt: startedAt,

@@ -15,6 +15,7 @@ import { db, makePerson, testApp } from '../support/api';
 import { dialogSettled, launchBrowser, screenshot, signInThroughPage, startServer } from '../support/browser';
 import { approve, fixture } from '../support/procedures';
 import { RecordMaker } from '../support/records';
+import { saveStep, stepAt, yes } from '../support/runner';
 
 const person = (name: string) => DEMO_PEOPLE.find((p) => p.displayName === name)!;
 const trainee = person('Ellis Marwood');
@@ -23,22 +24,6 @@ const auditor = person('Harriet Quill');
 const admin = person('Rowan Tilsley');
 const stores = DEMO_MACHINES.find((m) => m.name === 'Stores bandsaw')!;
 const TABLET = { width: 1024, height: 768 };
-
-async function stepAt(page: Page, n: number): Promise<Locator> {
-  const step = page.locator('sw-step-form').nth(n);
-  await step.waitFor({ state: 'visible' });
-  return step;
-}
-
-async function saveStep(page: Page, step: Locator) {
-  const saved = page.waitForResponse((r) => r.url().endsWith('/entries') && r.request().method() === 'POST');
-  await step.getByRole('button', { name: /^Save step$/ }).click();
-  assert.equal((await saved).status(), 201);
-}
-
-async function yes(step: Locator, label: string) {
-  await step.locator(`mat-button-toggle-group[aria-label="${label}"]`).getByText('Yes', { exact: true }).click();
-}
 
 async function userId(email: string): Promise<string> {
   return (await User.findOne({ where: { email } }))!.id;

@@ -8,6 +8,7 @@ import { Photo } from '../../api/modules/photos/model';
 import { SetupRecord, StepEntry } from '../../api/modules/records/model';
 import { db, makePerson, PASSWORD } from '../support/api';
 import { launchBrowser, screenshot, signInThroughPage, startServer } from '../support/browser';
+import { stepAt } from '../support/runner';
 
 /** Ask the page until it answers true (each answer awaited), or fail after `ms`. */
 async function until(page: Page, what: string, ask: () => Promise<boolean>, ms = 60_000) {
@@ -31,12 +32,6 @@ async function serviceWorkerReady(page: Page) {
 
 /** The shell's indicator (a live region). */
 const indicator = (page: Page) => page.locator('sw-connection-status [role=status]');
-
-async function stepAt(page: Page, n: number): Promise<Locator> {
-  const step = page.locator('sw-step-form').nth(n);
-  await step.waitFor({ state: 'visible' });
-  return step;
-}
 
 /** Save a step with no connection: it is kept on the tablet, and its label says so. */
 async function keepStep(page: Page, n: number) {

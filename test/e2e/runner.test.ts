@@ -8,27 +8,12 @@ import { User } from '../../api/modules/people/model';
 import { SetupRecord, StepEntry } from '../../api/modules/records/model';
 import { db } from '../support/api';
 import { dialogSettled, launchBrowser, screenshot, signInThroughPage, startServer } from '../support/browser';
+import { saveStep, stepAt, yes } from '../support/runner';
 
 const trainee = DEMO_PEOPLE.find((p) => p.roles.includes('trainee'))!;
 const witness = DEMO_PEOPLE.find((p) => p.roles.length === 1 && p.roles[0] === 'competent_person')!;
 
 /** The n-th step's form, once the stepper has opened it. */
-async function stepAt(page: Page, n: number): Promise<Locator> {
-  const step = page.locator('sw-step-form').nth(n);
-  await step.waitFor({ state: 'visible' });
-  return step;
-}
-
-async function saveStep(page: Page, step: Locator) {
-  const saved = page.waitForResponse((r) => r.url().endsWith('/entries') && r.request().method() === 'POST');
-  await step.getByRole('button', { name: /^Save step$/ }).click();
-  assert.equal((await saved).status(), 201);
-}
-
-async function yes(step: Locator, label: string) {
-  await step.locator(`mat-button-toggle-group[aria-label="${label}"]`).getByText('Yes', { exact: true }).click();
-}
-
 describe('a trainee runs the blade change at the saw, and a competent person signs it off', () => {
   let base: string;
   let finishedRecordId: string | undefined;

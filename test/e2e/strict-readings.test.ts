@@ -5,20 +5,9 @@ import { DEMO_PASSWORD, DEMO_PEOPLE } from '../../api/db/seed';
 import { StepEntry } from '../../api/modules/records/model';
 import { db } from '../support/api';
 import { launchBrowser, screenshot, signInThroughPage, startServer } from '../support/browser';
+import { saveStep, stepAt } from '../support/runner';
 
 const trainee = DEMO_PEOPLE.find((p) => p.roles.includes('trainee'))!;
-
-async function stepAt(page: Page, n: number): Promise<Locator> {
-  const step = page.locator('sw-step-form').nth(n);
-  await step.waitFor({ state: 'visible' });
-  return step;
-}
-
-async function saveStep(page: Page, step: Locator): Promise<void> {
-  const saved = page.waitForResponse((r) => r.url().endsWith('/entries') && r.request().method() === 'POST');
-  await step.getByRole('button', { name: /^Save step$/ }).click();
-  assert.equal((await saved).status(), 201);
-}
 
 describe('readings that can be trusted, in a real browser', () => {
   let base: string;

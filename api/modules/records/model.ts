@@ -21,6 +21,11 @@ export interface MachineSnapshot {
   location: string;
 }
 
+/** What a record keeps of its machine when it starts. */
+export function machineSnapshot(m: MachineSnapshot): MachineSnapshot {
+  return { id: m.id, name: m.name, assetTag: m.assetTag, model: m.model, location: m.location };
+}
+
 export class SetupRecord extends Model<InferAttributes<SetupRecord>, InferCreationAttributes<SetupRecord>> {
   declare id: string;
   declare machineId: string;

@@ -13,7 +13,7 @@ import { audit } from '../../lib/audit';
 import { Signature } from '../signoff/model';
 import type { SignOffService } from '../signoff/service';
 import type { Notifier } from '../mail/notifier';
-import { SetupRecord, StepEntry } from './model';
+import { machineSnapshot, SetupRecord, StepEntry } from './model';
 import { checkValues } from './values';
 import { entryRowView, entryView, recordState, recordSummary, type EntryRow } from './views';
 
@@ -105,7 +105,7 @@ export class RecordService {
             machineId: machine.id,
             procedureVersionId: version.id,
             machineSpec: machine.spec,
-            machineSnapshot: { id: machine.id, name: machine.name, assetTag: machine.assetTag, model: machine.model, location: machine.location },
+            machineSnapshot: machineSnapshot(machine),
             status: 'underway',
             startedById: person.id,
           },
